@@ -1,0 +1,35 @@
+/**
+ * rectboost's public library API. Everything a program needs is re-exported
+ * here by name; the CLI uses only these.
+ */
+export { RectboostError, isRectboostError, type RectboostErrorCode } from './errors.js';
+
+export {
+  createGrayImage,
+  cropGrayImage,
+  mirrorGrayImage,
+  resizeGrayImage,
+  DEFAULT_MAX_PIXELS,
+  type GrayImage,
+} from './image/gray-image.js';
+export { computeIntegralImage, rectangleSum, type IntegralImage } from './image/integral-image.js';
+export { windowStatistics, FLAT_WINDOW_VARIANCE, type WindowStatistics } from './image/window-statistics.js';
+
+export { BASIC_FEATURE_KINDS, CELL_LAYOUTS, isFeatureKind, type FeatureKind, type FeatureSetName, type CellLayout } from './features/feature-kind.js';
+export {
+  featureCells,
+  featureExtent,
+  featureFitsWindow,
+  scaledFeatureCells,
+  type HaarFeature,
+  type WeightedRectangle,
+} from './features/haar-feature.js';
+export { enumerateFeatures, countFeatures, countFeaturesOfKind, MAX_WINDOW_SIDE } from './features/enumerate-features.js';
+export { evaluateFeature, evaluateNormalizedFeature } from './features/evaluate-feature.js';
+export { compileFeatures, evaluateCompiledFeature, type CompiledFeatures } from './features/compiled-features.js';
+export { packWindowSamples, type WindowSamples } from './features/window-samples.js';
+
+export { decodeGrayImageFile, decodeGrayImageBytes, hasImageExtension, IMAGE_EXTENSIONS, type DecodeOptions } from './io/decode-image.js';
+export { encodeGrayPng, encodeRgbPng, type RgbImage } from './io/encode-image.js';
+export { writeFileAtomic } from './io/atomic-write.js';
+export { listImageFiles, listImageFilesOfAll } from './data/list-images.js';
