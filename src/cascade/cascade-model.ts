@@ -33,7 +33,8 @@ export interface StageTrainingRecord {
   readonly negatives: number;
   /** Background windows looked at to find the negatives (mining cost). */
   readonly windowsScanned: number;
-  readonly seconds: number;
+  /** Candidate features boosting searched (fewer than all when the memory cap sampled a subset). */
+  readonly featuresUsed: number;
   /** Why boosting stopped: the targets were met, or the weak-classifier limit was hit. */
   readonly stoppedBecause: 'targets-met' | 'max-weak-classifiers' | 'perfect-separation' | 'no-better-than-chance';
 }
@@ -52,7 +53,6 @@ export interface Stage {
 /** Training provenance: everything needed to know how a model was made. */
 export interface TrainingProvenance {
   readonly tool: string;
-  readonly createdAt: string;
   readonly seed: number;
   readonly options: Readonly<Record<string, string | number | boolean | null>>;
   readonly data: {
@@ -63,8 +63,17 @@ export interface TrainingProvenance {
     readonly positivesHash: string;
     readonly backgroundsHash: string;
   };
+  /** Why training ended: target reached, stage limit, or backgrounds exhausted. */
   readonly stopReason: string;
-  readonly seconds: number;
+  /**
+   * Wall-clock facts (kept apart so that everything else is reproducible byte for
+   * byte; `train --no-timing` leaves this out).
+   */
+  readonly timing?: {
+    readonly createdAt: string;
+    readonly totalSeconds: number;
+    readonly stageSeconds: readonly number[];
+  };
 }
 
 /**
