@@ -1,0 +1,323 @@
+import { RectboostError } from '../errors.js';
+import { MAX_WINDOW_SIDE } from '../features/enumerate-features.js';
+import { BASIC_FEATURE_KINDS, isFeatureKind } from '../features/feature-kind.js';
+import { featureFitsWindow, type HaarFeature } from '../features/haar-feature.js';
+import {
+  CASCADE_FORMAT,
+  CASCADE_VERSION,
+  type CascadeModel,
+  type Stage,
+  type StageTrainingRecord,
+  type TrainingProvenance,
+  type WeakClassifier,
+} from './cascade-model.js';
+
+/**
+ * Bounds that keep an untrusted model file from causing huge allocations or
+ * long loops (DESIGN §5). Real cascades are far smaller: Viola & Jones (2004)
+ * used 38 stages and 6,060 features in all.
+ */
+export const MODEL_LIMITS = {
+  maxTextBytes: 64 * 1024 * 1024,
+  maxStages: 1000,
+  maxWeakClassifiersPerStage: 10_000,
+  maxWeakClassifiersTotal: 200_000,
+  maxAbsoluteValue: 1e12,
+} as const;
+
+const STOP_REASONS: ReadonlyArray<StageTrainingRecord['stoppedBecause']> = [
+  'targets-met',
+  'max-weak-classifiers',
+  'perfect-separation',
+  'no-better-than-chance',
+];
+
+/**
+ * The model as JSON text with a fixed key order, so that the same model always
+ * gives the same bytes: one weak classifier per line keeps files diffable.
+ * Numbers are written in JavaScript's shortest round-trip form, so parsing gives
+ * back the identical doubles.
+ */
+export function serializeCascadeModel(model: CascadeModel): string {
+  const lines: string[] = [];
+  lines.push('{');
+  lines.push(`  "format": ${JSON.stringify(model.format)},`);
+  lines.push(`  "version": ${model.version},`);
+  lines.push(`  "window": ${JSON.stringify({ width: model.window.width, height: model.window.height })},`);
+  lines.push(`  "normalization": ${JSON.stringify(model.normalization)},`);
+  lines.push(`  "featureSet": ${JSON.stringify(model.featureSet)},`);
+  if (model.meanPositive !== undefined) {
+    lines.push(`  "meanPositive": ${JSON.stringify(model.meanPositive.map((v) => Math.round(v * 100) / 100))},`);
+  }
+  if (model.training !== undefined) {
+    lines.push(`  "training": ${indentJson(orderedProvenance(model.training), '  ')},`);
+  }
+  lines.push('  "stages": [');
+  model.stages.forEach((stage, s) => {
+    lines.push('    {');
+    lines.push(`      "threshold": ${JSON.stringify(stage.threshold)},`);
+    if (stage.training !== undefined) lines.push(`      "training": ${JSON.stringify(orderedStageRecord(stage.training))},`);
+    lines.push('      "weakClassifiers": [');
+    stage.weakClassifiers.forEach((weak, w) => {
+      const comma = w + 1 < stage.weakClassifiers.length ? ',' : '';
+      lines.push(`        ${JSON.stringify(orderedWeak(weak))}${comma}`);
+    });
+    lines.push('      ]');
+    lines.push(`    }${s + 1 < model.stages.length ? ',' : ''}`);
+  });
+  lines.push('  ]');
+  lines.push('}');
+  return `${lines.join('\n')}\n`;
+}
+
+function indentJson(value: unknown, indent: string): string {
+  return JSON.stringify(value, null, 2).split('\n').join(`\n${indent}`);
+}
+
+function orderedWeak(weak: WeakClassifier): object {
+  const f = weak.feature;
+  return {
+    feature: { kind: f.kind, x: f.x, y: f.y, cellWidth: f.cellWidth, cellHeight: f.cellHeight },
+    splitValue: weak.splitValue,
+    belowOutput: weak.belowOutput,
+    aboveOutput: weak.aboveOutput,
+  };
+}
+
+function orderedStageRecord(record: StageTrainingRecord): object {
+  return {
+    detectionRate: record.detectionRate,
+    falsePositiveRate: record.falsePositiveRate,
+    positives: record.positives,
+    negatives: record.negatives,
+    windowsScanned: record.windowsScanned,
+    featuresUsed: record.featuresUsed,
+    stoppedBecause: record.stoppedBecause,
+  };
+}
+
+function orderedProvenance(training: TrainingProvenance): object {
+  const options: Record<string, unknown> = {};
+  for (const key of Object.keys(training.options).sort()) options[key] = training.options[key];
+  return {
+    tool: training.tool,
+    seed: training.seed,
+    options,
+    data: {
+      positives: training.data.positives,
+      validationPositives: training.data.validationPositives,
+      backgroundImages: training.data.backgroundImages,
+      positivesHash: training.data.positivesHash,
+      backgroundsHash: training.data.backgroundsHash,
+    },
+    stopReason: training.stopReason,
+    ...(training.timing === undefined
+      ? {}
+      : {
+          timing: {
+            createdAt: training.timing.createdAt,
+            totalSeconds: training.timing.totalSeconds,
+            stageSeconds: training.timing.stageSeconds,
+          },
+        }),
+  };
+}
+
+/**
+ * Parses and strictly validates model JSON text. `label` (usually the file path)
+ * names the source in errors. Checks: known format and version, window within
+ * 1..MAX_WINDOW_SIDE, every number finite and bounded, every feature of a known
+ * kind and inside the window, sizes within MODEL_LIMITS. Unknown fields are refused
+ * so that typos do not pass silently.
+ * @throws RectboostError `bad-model` with the field path, e.g. `stages[2].weakClassifiers[5].splitValue`.
+ */
+export function parseCascadeModel(text: string, label: string): CascadeModel {
+  if (text.length > MODEL_LIMITS.maxTextBytes) {
+    throw new RectboostError('bad-model', `Model ${label} is ${text.length} bytes, above the limit of ${MODEL_LIMITS.maxTextBytes}.`);
+  }
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch (error) {
+    throw new RectboostError('bad-model', `Model ${label} is not valid JSON (${(error as Error).message}); it may be truncated.`, { cause: error });
+  }
+  return validateCascadeModel(raw, label);
+}
+
+/** Validates an already-parsed value as a CascadeModel (see parseCascadeModel). */
+export function validateCascadeModel(raw: unknown, label: string): CascadeModel {
+  const v = new ModelValidator(label);
+  const root = v.object(raw, '', ['format', 'version', 'window', 'normalization', 'featureSet', 'stages'], ['meanPositive', 'training']);
+  if (root.format !== CASCADE_FORMAT) {
+    v.fail('format', `must be "${CASCADE_FORMAT}" (received ${JSON.stringify(root.format)}); this is not a rectboost model`);
+  }
+  if (root.version !== CASCADE_VERSION) {
+    v.fail('version', `must be ${CASCADE_VERSION} (received ${JSON.stringify(root.version)}); this rectboost reads version ${CASCADE_VERSION} models only`);
+  }
+  const windowObject = v.object(root.window, 'window', ['width', 'height'], []);
+  const width = v.integer(windowObject.width, 'window.width', 1, MAX_WINDOW_SIDE);
+  const height = v.integer(windowObject.height, 'window.height', 1, MAX_WINDOW_SIDE);
+  if (root.normalization !== 'window-standard-deviation') {
+    v.fail('normalization', `must be "window-standard-deviation" (received ${JSON.stringify(root.normalization)})`);
+  }
+  if (root.featureSet !== 'basic') v.fail('featureSet', `must be "basic" (received ${JSON.stringify(root.featureSet)})`);
+  const stagesRaw = v.array(root.stages, 'stages', MODEL_LIMITS.maxStages);
+  let totalWeak = 0;
+  const stages: Stage[] = stagesRaw.map((stageRaw, s) => {
+    const path = `stages[${s}]`;
+    const stageObject = v.object(stageRaw, path, ['threshold', 'weakClassifiers'], ['training']);
+    const threshold = v.number(stageObject.threshold, `${path}.threshold`);
+    const weakRaw = v.array(stageObject.weakClassifiers, `${path}.weakClassifiers`, MODEL_LIMITS.maxWeakClassifiersPerStage);
+    totalWeak += weakRaw.length;
+    if (totalWeak > MODEL_LIMITS.maxWeakClassifiersTotal) {
+      v.fail(`${path}.weakClassifiers`, `brings the total above ${MODEL_LIMITS.maxWeakClassifiersTotal} weak classifiers`);
+    }
+    const weakClassifiers = weakRaw.map((w, i) => parseWeak(v, w, `${path}.weakClassifiers[${i}]`, width, height));
+    const stage: Stage = { threshold, weakClassifiers };
+    if (stageObject.training === undefined) return stage;
+    return { ...stage, training: parseStageRecord(v, stageObject.training, `${path}.training`) };
+  });
+  let model: CascadeModel = {
+    format: CASCADE_FORMAT,
+    version: CASCADE_VERSION,
+    window: { width, height },
+    normalization: 'window-standard-deviation',
+    featureSet: 'basic',
+    stages,
+  };
+  if (root.meanPositive !== undefined) {
+    const mean = v.array(root.meanPositive, 'meanPositive', width * height);
+    if (mean.length !== width * height) v.fail('meanPositive', `must hold ${width * height} values (received ${mean.length})`);
+    model = { ...model, meanPositive: mean.map((value, i) => v.numberIn(value, `meanPositive[${i}]`, 0, 255)) };
+  }
+  if (root.training !== undefined) model = { ...model, training: parseProvenance(v, root.training) };
+  return model;
+}
+
+function parseWeak(v: ModelValidator, raw: unknown, path: string, width: number, height: number): WeakClassifier {
+  const weak = v.object(raw, path, ['feature', 'splitValue', 'belowOutput', 'aboveOutput'], []);
+  const featureObject = v.object(weak.feature, `${path}.feature`, ['kind', 'x', 'y', 'cellWidth', 'cellHeight'], []);
+  if (!isFeatureKind(featureObject.kind)) {
+    v.fail(`${path}.feature.kind`, `must be one of ${BASIC_FEATURE_KINDS.join(', ')} (received ${JSON.stringify(featureObject.kind)})`);
+  }
+  const feature: HaarFeature = {
+    kind: featureObject.kind,
+    x: v.integer(featureObject.x, `${path}.feature.x`, 0, MAX_WINDOW_SIDE),
+    y: v.integer(featureObject.y, `${path}.feature.y`, 0, MAX_WINDOW_SIDE),
+    cellWidth: v.integer(featureObject.cellWidth, `${path}.feature.cellWidth`, 1, MAX_WINDOW_SIDE),
+    cellHeight: v.integer(featureObject.cellHeight, `${path}.feature.cellHeight`, 1, MAX_WINDOW_SIDE),
+  };
+  if (!featureFitsWindow(feature, width, height)) {
+    v.fail(`${path}.feature`, `lies outside the ${width}×${height} window`);
+  }
+  return {
+    feature,
+    splitValue: v.number(weak.splitValue, `${path}.splitValue`),
+    belowOutput: v.number(weak.belowOutput, `${path}.belowOutput`),
+    aboveOutput: v.number(weak.aboveOutput, `${path}.aboveOutput`),
+  };
+}
+
+function parseStageRecord(v: ModelValidator, raw: unknown, path: string): StageTrainingRecord {
+  const record = v.object(raw, path, ['detectionRate', 'falsePositiveRate', 'positives', 'negatives', 'windowsScanned', 'featuresUsed', 'stoppedBecause'], []);
+  if (!(STOP_REASONS as readonly unknown[]).includes(record.stoppedBecause)) {
+    v.fail(`${path}.stoppedBecause`, `must be one of ${STOP_REASONS.join(', ')}`);
+  }
+  return {
+    detectionRate: v.numberIn(record.detectionRate, `${path}.detectionRate`, 0, 1),
+    falsePositiveRate: v.numberIn(record.falsePositiveRate, `${path}.falsePositiveRate`, 0, 1),
+    positives: v.integer(record.positives, `${path}.positives`, 0, Number.MAX_SAFE_INTEGER),
+    negatives: v.integer(record.negatives, `${path}.negatives`, 0, Number.MAX_SAFE_INTEGER),
+    windowsScanned: v.integer(record.windowsScanned, `${path}.windowsScanned`, 0, Number.MAX_SAFE_INTEGER),
+    featuresUsed: v.integer(record.featuresUsed, `${path}.featuresUsed`, 0, Number.MAX_SAFE_INTEGER),
+    stoppedBecause: record.stoppedBecause as StageTrainingRecord['stoppedBecause'],
+  };
+}
+
+function parseProvenance(v: ModelValidator, raw: unknown): TrainingProvenance {
+  const t = v.object(raw, 'training', ['tool', 'seed', 'options', 'data', 'stopReason'], ['timing']);
+  const optionsObject = v.object(t.options, 'training.options', [], null);
+  const options: Record<string, string | number | boolean | null> = {};
+  for (const [key, value] of Object.entries(optionsObject)) {
+    if (value !== null && typeof value !== 'string' && typeof value !== 'boolean') v.number(value, `training.options.${key}`);
+    options[key] = value as string | number | boolean | null;
+  }
+  const data = v.object(t.data, 'training.data', ['positives', 'validationPositives', 'backgroundImages', 'positivesHash', 'backgroundsHash'], []);
+  const provenance: TrainingProvenance = {
+    tool: v.string(t.tool, 'training.tool'),
+    seed: v.integer(t.seed, 'training.seed', 0, Number.MAX_SAFE_INTEGER),
+    options,
+    data: {
+      positives: v.integer(data.positives, 'training.data.positives', 0, Number.MAX_SAFE_INTEGER),
+      validationPositives: v.integer(data.validationPositives, 'training.data.validationPositives', 0, Number.MAX_SAFE_INTEGER),
+      backgroundImages: v.integer(data.backgroundImages, 'training.data.backgroundImages', 0, Number.MAX_SAFE_INTEGER),
+      positivesHash: v.string(data.positivesHash, 'training.data.positivesHash'),
+      backgroundsHash: v.string(data.backgroundsHash, 'training.data.backgroundsHash'),
+    },
+    stopReason: v.string(t.stopReason, 'training.stopReason'),
+  };
+  if (t.timing === undefined) return provenance;
+  const timing = v.object(t.timing, 'training.timing', ['createdAt', 'totalSeconds', 'stageSeconds'], []);
+  const stageSeconds = v.array(timing.stageSeconds, 'training.timing.stageSeconds', MODEL_LIMITS.maxStages);
+  return {
+    ...provenance,
+    timing: {
+      createdAt: v.string(timing.createdAt, 'training.timing.createdAt'),
+      totalSeconds: v.numberIn(timing.totalSeconds, 'training.timing.totalSeconds', 0, MODEL_LIMITS.maxAbsoluteValue),
+      stageSeconds: stageSeconds.map((value, i) => v.numberIn(value, `training.timing.stageSeconds[${i}]`, 0, MODEL_LIMITS.maxAbsoluteValue)),
+    },
+  };
+}
+
+/** Field-path-aware checks; every failure is one sentence naming file and field. */
+class ModelValidator {
+  constructor(private readonly label: string) {}
+
+  fail(path: string, problem: string): never {
+    const where = path === '' ? 'the top level' : `field ${path}`;
+    throw new RectboostError('bad-model', `Model ${this.label}: ${where} ${problem}.`);
+  }
+
+  /** An object with all `required` keys; any key outside required ∪ optional is refused unless optional is null. */
+  object(value: unknown, path: string, required: readonly string[], optional: readonly string[] | null): Record<string, unknown> {
+    if (typeof value !== 'object' || value === null || Array.isArray(value)) this.fail(path, 'must be an object');
+    const record = value as Record<string, unknown>;
+    for (const key of required) {
+      if (!(key in record)) this.fail(path === '' ? key : `${path}.${key}`, 'is missing');
+    }
+    if (optional !== null) {
+      for (const key of Object.keys(record)) {
+        if (!required.includes(key) && !optional.includes(key)) this.fail(path === '' ? key : `${path}.${key}`, 'is not a known field');
+      }
+    }
+    return record;
+  }
+
+  array(value: unknown, path: string, maxLength: number): unknown[] {
+    if (!Array.isArray(value)) this.fail(path, 'must be an array');
+    if (value.length > maxLength) this.fail(path, `has ${value.length} entries, above the limit of ${maxLength}`);
+    return value;
+  }
+
+  number(value: unknown, path: string): number {
+    return this.numberIn(value, path, -MODEL_LIMITS.maxAbsoluteValue, MODEL_LIMITS.maxAbsoluteValue);
+  }
+
+  numberIn(value: unknown, path: string, min: number, max: number): number {
+    if (typeof value !== 'number' || !Number.isFinite(value)) this.fail(path, `must be a finite number (received ${JSON.stringify(value)})`);
+    if (value < min || value > max) this.fail(path, `must lie in [${min}, ${max}] (received ${value})`);
+    return value;
+  }
+
+  integer(value: unknown, path: string, min: number, max: number): number {
+    if (typeof value !== 'number' || !Number.isInteger(value) || value < min || value > max) {
+      this.fail(path, `must be an integer from ${min} to ${max} (received ${JSON.stringify(value)})`);
+    }
+    return value;
+  }
+
+  string(value: unknown, path: string): string {
+    if (typeof value !== 'string' || value.length > 10_000) this.fail(path, 'must be a string of at most 10,000 characters');
+    return value;
+  }
+}
