@@ -13,7 +13,7 @@ export function exitCodeFor(error: unknown): number {
 /** One line for stderr; the stack only when verbose. */
 export function formatError(error: unknown, verbose: boolean): string {
   const message = error instanceof Error ? error.message : String(error);
-  const line = `rectboost: ${message.split('\n')[0]}`;
+  const line = `rectboost: ${message}`;
   if (!verbose || !(error instanceof Error) || error.stack === undefined) return line;
   return `${line}\n${error.stack}`;
 }
