@@ -3,6 +3,7 @@ import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { cropGrayImage, resizeGrayImage, type GrayImage } from '../../src/image/gray-image.js';
 import { decodeGrayImageFile } from '../../src/io/decode-image.js';
 import { DEFAULTS, generateBackground, generateDemo, generatePositive, generateScene } from '../../scripts/demo/generate.js';
 
@@ -119,6 +120,46 @@ describe('demo generator', () => {
     const border = average((_, x, y) => x === 0 || y === 0 || x === 23 || y === 23);
     expect(centre - border).toBeGreaterThan(15);
     expect(border - band).toBeGreaterThan(3);
+  });
+
+  it('frames scene truth boxes like the positives: cropped to 24×24, the dark rim sits at the same radius', () => {
+    /*
+     * Positives draw head diameters of 55–80 % of the 24 px side (mean 67.5 %), scene rivets 62–73 % of the
+     * box side (mean 67.5 %), so in both the rim, and the dark crevice and shadow just outside it, lie near
+     * 0.675 · 24 / 2 ≈ 8.1 px from the centre. The darkest one-pixel ring of the mean image must therefore be
+     * at the same radius (±1 px) for truth crops resized to 24×24 as for positives; a framing mistake
+     * (say, boxes tight around the head) would move it outwards by several pixels.
+     */
+    const darkestRing = (images: GrayImage[]): number => {
+      const sums = new Float64Array(12);
+      const counts = new Float64Array(12);
+      for (const image of images) {
+        for (let y = 0; y < 24; y++) {
+          for (let x = 0; x < 24; x++) {
+            const ring = Math.floor(Math.hypot(x + 0.5 - 12, y + 0.5 - 12));
+            if (ring < 12) {
+              sums[ring]! += image.data[y * 24 + x]!;
+              counts[ring]!++;
+            }
+          }
+        }
+      }
+      const means = Array.from(sums, (sum, ring) => sum / counts[ring]!);
+      // Search rings 3..11: the dome centre is bright, so the minimum is outside it.
+      let darkest = 3;
+      for (let ring = 4; ring < 12; ring++) if (means[ring]! < means[darkest]!) darkest = ring;
+      return darkest;
+    };
+    const crops: GrayImage[] = [];
+    for (let i = 1; i <= 4; i++) {
+      const scene = generateScene(1, i);
+      for (const [x, y, width, height] of scene.boxes) crops.push(resizeGrayImage(cropGrayImage(scene, x, y, width, height), 24, 24));
+    }
+    const positives = Array.from({ length: 200 }, (_, i) => generatePositive(1, i + 1));
+    expect(crops.length).toBeGreaterThan(40);
+    expect(Math.abs(darkestRing(crops) - darkestRing(positives))).toBeLessThanOrEqual(1);
+    expect(darkestRing(positives)).toBeGreaterThanOrEqual(7);
+    expect(darkestRing(positives)).toBeLessThanOrEqual(9);
   });
 
   it('reproduces the committed demo-patches/ pictures and truth from the default seed', async () => {
