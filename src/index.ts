@@ -33,3 +33,9 @@ export { decodeGrayImageFile, decodeGrayImageBytes, hasImageExtension, IMAGE_EXT
 export { encodeGrayPng, encodeRgbPng, type RgbImage } from './io/encode-image.js';
 export { writeFileAtomic } from './io/atomic-write.js';
 export { listImageFiles, listImageFilesOfAll } from './data/list-images.js';
+
+// Data-set readers: NumPy .npy and IDX files, lfw_subset and Fashion-MNIST loaders.
+export { readNpy, readNpyFile, type NpyArray } from './data/npy-reader.js';
+export { readIdx, readIdxFile, type IdxArray } from './data/idx-reader.js';
+export { loadLfwSubset, LFW_SUBSET_ITEMS_PER_CLASS, LFW_SUBSET_SIDE, type LfwSubset } from './data/lfw-subset.js';
+export { loadFashionMnist, FASHION_MNIST_SIDE, type FashionMnistSplit } from './data/fashion-mnist.js';
