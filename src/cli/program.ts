@@ -1,5 +1,6 @@
 import { Command, CommanderError } from 'commander';
 import { registerCheckCommand } from './commands/check.js';
+import { registerTrainCommand } from './commands/train.js';
 import { EXIT_USAGE, exitCodeFor, formatError } from './messages.js';
 
 /** Commands of DESIGN §2 that later work will fill in; until then they say so. */
@@ -23,6 +24,7 @@ export function buildProgram(): Command {
     .showHelpAfterError('(run with --help for usage)')
     .exitOverride();
   registerCheckCommand(program);
+  registerTrainCommand(program);
   const registered = new Set(program.commands.map((command) => command.name()));
   for (const planned of PLANNED_COMMANDS) {
     if (registered.has(planned.name)) continue;

@@ -1,0 +1,267 @@
+import seedrandom from 'seedrandom';
+import type { BoosterKind } from '../boost/booster.js';
+import { trainStage } from '../boost/train-stage.js';
+import type { BoostingPool } from '../parallel/boosting-pool.js';
+import { checkInteger, checkNumber, checkOpenInterval, checkThat } from '../check.js';
+import { RectboostError } from '../errors.js';
+import { enumerateFeatures } from '../features/enumerate-features.js';
+import { packWindowSamples } from '../features/window-samples.js';
+import { mirrorGrayImage, type GrayImage } from '../image/gray-image.js';
+import type { Stage } from './cascade-model.js';
+import { BackgroundWindows, mineHardNegatives, sampleUniformNegatives } from './negative-mining.js';
+import { stagesPassed } from './stage-score.js';
+
+/** Options of cascade training; defaults are those of `rectboost train`. */
+export interface CascadeTrainingOptions {
+  readonly windowWidth: number;
+  readonly windowHeight: number;
+  /** Positive windows (windowWidth × windowHeight), before mirroring. */
+  readonly positives: readonly GrayImage[];
+  /** Background images without objects, each at least the window size. */
+  readonly backgrounds: readonly GrayImage[];
+  /** Minimum detection rate every stage keeps on validation positives (default 0.995). */
+  readonly stageDetectionRate: number;
+  /** Maximum false-positive rate a stage lets through (default 0.5). */
+  readonly stageFalsePositiveRate: number;
+  /** Stop when the product of stage false-positive rates is at or below this (default 1e-5). */
+  readonly targetFalsePositiveRate: number;
+  readonly maxStages: number;
+  readonly maxWeakClassifiers: number;
+  /** Negatives mined for every stage. */
+  readonly negativesPerStage: number;
+  readonly booster: BoosterKind;
+  /** Add left-right mirrored copies of every positive (kept on the same side of the validation split). */
+  readonly mirror: boolean;
+  /** Share of positives held out to set stage thresholds, in [0, 0.9]; 0 uses the training positives. */
+  readonly validationShare: number;
+  readonly seed: number;
+  readonly memoryBytes: number;
+  readonly pool?: BoostingPool;
+  /** Stages finished by an earlier run (resume); training continues after them. */
+  readonly completedStages?: readonly Stage[];
+  readonly onEvent?: (event: TrainingEvent) => void;
+  /** Called after every stage with all stages so far (write a checkpoint here). */
+  readonly onStageFinished?: (stages: readonly Stage[], report: StageReport) => Promise<void>;
+  /** Polled between units of work; when true, training stops with an `interrupted` error. */
+  readonly shouldStop?: () => boolean;
+}
+
+/** What happened in one stage, for progress lines and the summary table. */
+export interface StageReport {
+  readonly stageIndex: number;
+  readonly weakClassifiers: number;
+  readonly detectionRate: number;
+  readonly falsePositiveRate: number;
+  /** Product of the false-positive rates of all stages so far. */
+  readonly overallFalsePositiveRate: number;
+  readonly negatives: number;
+  readonly windowsScanned: number;
+  readonly seconds: number;
+  readonly stoppedBecause: NonNullable<Stage['training']>['stoppedBecause'];
+  readonly featuresUsed: number;
+}
+
+/** Progress of training, for a live progress line. */
+export type TrainingEvent =
+  | { readonly phase: 'mining'; readonly stageIndex: number; readonly found: number; readonly wanted: number; readonly scanned: number }
+  | { readonly phase: 'boosting'; readonly stageIndex: number; readonly weakClassifiers: number; readonly detectionRate: number; readonly falsePositiveRate: number }
+  | { readonly phase: 'stage-finished'; readonly report: StageReport };
+
+/** Why training ended. */
+export type CascadeStopReason = 'target-reached' | 'max-stages' | 'backgrounds-exhausted' | 'positives-exhausted';
+
+export interface CascadeTrainingResult {
+  readonly stages: Stage[];
+  readonly stopReason: CascadeStopReason;
+  /** One sentence for the summary line. */
+  readonly stopMessage: string;
+  readonly reports: StageReport[];
+  readonly trainingPositives: number;
+  readonly validationPositives: number;
+  /** Mean of all positive windows (row-major, 0..255), for drawings. */
+  readonly meanPositive: number[];
+}
+
+/** Fewest negatives worth training a stage on: half of those asked for. */
+const MIN_NEGATIVE_SHARE = 0.5;
+
+/**
+ * Trains a cascade (Viola & Jones 2001 §5, Table 2): stage after stage, each
+ * boosted until it keeps `stageDetectionRate` of the validation positives while
+ * letting through at most `stageFalsePositiveRate` of its negatives. Stage 1's
+ * negatives are drawn uniformly from all background windows; every later stage's
+ * are background windows that the cascade so far still accepts. Training stops
+ * when the product of stage rates reaches the target, at `maxStages`, or when the
+ * backgrounds cannot supply enough windows that the cascade accepts (success: the
+ * data can show no more).
+ *
+ * Deterministic: every random choice comes from seedrandom(`seed:…`) streams named
+ * by their purpose and stage, so a resumed run gives the same stages as an
+ * uninterrupted one.
+ * @throws RectboostError `invalid-option` for out-of-range options, `bad-data`
+ *   for too few positives, `interrupted` when shouldStop() turns true.
+ */
+export async function trainCascade(options: CascadeTrainingOptions): Promise<CascadeTrainingResult> {
+  const { windowWidth, windowHeight } = options;
+  checkNumber('stage detection rate', options.stageDetectionRate, 0.5, 1);
+  checkOpenInterval('stage false-positive rate', options.stageFalsePositiveRate, 0, 1);
+  checkOpenInterval('target false-positive rate', options.targetFalsePositiveRate, 0, 1);
+  checkInteger('maximum stages', options.maxStages, 1, 1000);
+  checkInteger('maximum weak classifiers', options.maxWeakClassifiers, 1, 10_000);
+  checkInteger('negatives per stage', options.negativesPerStage, 1, 10_000_000);
+  checkNumber('validation share', options.validationShare, 0, 0.9);
+  checkThat(options.backgrounds.length > 0, 'Training needs at least one background image.');
+
+  const { training, validation } = splitPositives(options);
+  if (training.length < 2) {
+    throw new RectboostError('bad-data', `Training needs at least 2 training positives after holding out validation; it has ${training.length}.`);
+  }
+  const features = enumerateFeatures(windowWidth, windowHeight);
+  const backgrounds = new BackgroundWindows(options.backgrounds, windowWidth, windowHeight);
+  const stages: Stage[] = [...(options.completedStages ?? [])];
+  const reports: StageReport[] = stages.map((stage, stageIndex) => reportOfRecordedStage(stage, stageIndex, stages));
+  const stop = (): void => {
+    if (options.shouldStop?.()) throw new RectboostError('interrupted', 'Training was interrupted.');
+  };
+  const finish = (stopReason: CascadeStopReason, stopMessage: string): CascadeTrainingResult => ({
+    stages,
+    stopReason,
+    stopMessage,
+    reports,
+    trainingPositives: training.length,
+    validationPositives: validation.length,
+    meanPositive: meanWindow([...training, ...validation], windowWidth * windowHeight),
+  });
+
+  for (;;) {
+    const overall = reports.reduce((product, report) => product * report.falsePositiveRate, 1);
+    if (stages.length > 0 && overall <= options.targetFalsePositiveRate) {
+      return finish('target-reached', `Reached the target false-positive rate: ${formatRate(overall)} ≤ ${formatRate(options.targetFalsePositiveRate)} after ${stages.length} stages.`);
+    }
+    if (stages.length >= options.maxStages) {
+      return finish('max-stages', `Stopped at the stage limit of ${options.maxStages}; overall false-positive rate ${formatRate(overall)}.`);
+    }
+    stop();
+    const stageIndex = stages.length;
+    const started = performance.now();
+    const cascadeSoFar = { window: { width: windowWidth, height: windowHeight }, stages };
+    const trainingKept = keepAccepted(training, cascadeSoFar, windowWidth, windowHeight);
+    const validationKept = validation.length === 0 ? trainingKept : keepAccepted(validation, cascadeSoFar, windowWidth, windowHeight);
+    if (trainingKept.length < 2 || validationKept.length < 1) {
+      return finish('positives-exhausted', `Stopped: the cascade keeps too few positives (${trainingKept.length}) to train stage ${stageIndex + 1}.`);
+    }
+
+    const miningRandom = seedrandom(`${options.seed}:mining:${stageIndex}`);
+    const wanted = options.negativesPerStage;
+    const onMining = (found: number, scanned: number): void => options.onEvent?.({ phase: 'mining', stageIndex, found, wanted, scanned });
+    const mined = stageIndex === 0
+      ? sampleUniformNegatives(backgrounds, wanted, miningRandom)
+      : mineHardNegatives(backgrounds, cascadeSoFar, wanted, miningRandom, onMining, options.shouldStop);
+    stop();
+    onMining(mined.negatives.length, mined.windowsScanned);
+    if (mined.negatives.length < Math.max(1, Math.ceil(wanted * MIN_NEGATIVE_SHARE))) {
+      return finish(
+        'backgrounds-exhausted',
+        `Stopped: the backgrounds hold only ${mined.negatives.length} windows that the ${stageIndex}-stage cascade still accepts ` +
+          `(${mined.windowsScanned} scanned, ${wanted} wanted); the cascade has met what these backgrounds can show.`,
+      );
+    }
+
+    const result = await trainStage({
+      features,
+      positives: packWindowSamples(trainingKept, windowWidth, windowHeight),
+      negatives: packWindowSamples(mined.negatives, windowWidth, windowHeight),
+      validationPositives: packWindowSamples(validationKept, windowWidth, windowHeight),
+      booster: options.booster,
+      minDetectionRate: options.stageDetectionRate,
+      maxFalsePositiveRate: options.stageFalsePositiveRate,
+      maxWeakClassifiers: options.maxWeakClassifiers,
+      memoryBytes: options.memoryBytes,
+      random: seedrandom(`${options.seed}:features:${stageIndex}`),
+      ...(options.pool === undefined ? {} : { pool: options.pool }),
+      onRound: (round) => {
+        stop();
+        options.onEvent?.({
+          phase: 'boosting',
+          stageIndex,
+          weakClassifiers: round.weakClassifiers,
+          detectionRate: round.detectionRate,
+          falsePositiveRate: round.falsePositiveRate,
+        });
+      },
+    });
+    const stage: Stage = {
+      threshold: result.stage.threshold,
+      weakClassifiers: result.stage.weakClassifiers,
+      training: {
+        detectionRate: result.detectionRate,
+        falsePositiveRate: result.falsePositiveRate,
+        positives: trainingKept.length,
+        negatives: mined.negatives.length,
+        windowsScanned: mined.windowsScanned,
+        featuresUsed: result.featuresUsed,
+        stoppedBecause: result.stoppedBecause,
+      },
+    };
+    stages.push(stage);
+    const report: StageReport = {
+      ...reportOfRecordedStage(stage, stageIndex, stages),
+      seconds: (performance.now() - started) / 1000,
+    };
+    reports.push(report);
+    await options.onStageFinished?.(stages, report);
+    options.onEvent?.({ phase: 'stage-finished', report });
+  }
+}
+
+function reportOfRecordedStage(stage: Stage, stageIndex: number, stages: readonly Stage[]): StageReport {
+  const record = stage.training;
+  let overall = 1;
+  for (let k = 0; k <= stageIndex; k++) overall *= stages[k]?.training?.falsePositiveRate ?? 1;
+  return {
+    stageIndex,
+    weakClassifiers: stage.weakClassifiers.length,
+    detectionRate: record?.detectionRate ?? NaN,
+    falsePositiveRate: record?.falsePositiveRate ?? 1,
+    overallFalsePositiveRate: overall,
+    negatives: record?.negatives ?? 0,
+    windowsScanned: record?.windowsScanned ?? 0,
+    seconds: 0,
+    stoppedBecause: record?.stoppedBecause ?? 'targets-met',
+    featuresUsed: record?.featuresUsed ?? 0,
+  };
+}
+
+/** Seeded split of positives into training and validation; mirrored copies follow their source. */
+function splitPositives(options: CascadeTrainingOptions): { training: GrayImage[]; validation: GrayImage[] } {
+  const count = options.positives.length;
+  const order = Array.from({ length: count }, (_, i) => i);
+  const random = seedrandom(`${options.seed}:validation`);
+  for (let i = count - 1; i > 0; i--) {
+    const j = Math.floor(random() * (i + 1));
+    [order[i], order[j]] = [order[j]!, order[i]!];
+  }
+  const held = options.validationShare === 0 ? 0 : Math.max(1, Math.round(count * options.validationShare));
+  const expand = (indices: number[]): GrayImage[] => {
+    const originals = indices.map((i) => options.positives[i]!);
+    return options.mirror ? [...originals, ...originals.map(mirrorGrayImage)] : originals;
+  };
+  return { validation: expand(order.slice(0, held)), training: expand(order.slice(held)) };
+}
+
+function keepAccepted(windows: readonly GrayImage[], cascade: { stages: readonly Stage[]; window: { width: number; height: number } }, width: number, height: number): GrayImage[] {
+  if (cascade.stages.length === 0) return [...windows];
+  const passed = stagesPassed(cascade, packWindowSamples(windows, width, height));
+  return windows.filter((_, i) => passed[i] === cascade.stages.length);
+}
+
+function meanWindow(windows: readonly GrayImage[], size: number): number[] {
+  const mean = new Float64Array(size);
+  for (const window of windows) for (let i = 0; i < size; i++) mean[i]! += window.data[i]!;
+  return Array.from(mean, (total) => total / Math.max(1, windows.length));
+}
+
+/** A rate for messages: 3 significant digits, exponent below 0.001. */
+export function formatRate(rate: number): string {
+  return rate !== 0 && rate < 1e-3 ? rate.toExponential(2) : rate.toPrecision(3);
+}

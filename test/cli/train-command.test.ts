@@ -1,0 +1,126 @@
+import { spawn } from 'node:child_process';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { parseCascadeModel } from '../../src/cascade/model-json.js';
+import { runCli } from '../helpers/run-cli.js';
+import { writeSyntheticTrainingData } from '../helpers/synthetic-data.js';
+
+const BIN = fileURLToPath(new URL('../../bin/rectboost.js', import.meta.url));
+const root = mkdtempSync(join(tmpdir(), 'rectboost-train-'));
+let data: { positives: string; backgrounds: string };
+
+// Small, fast settings: 12×12 window (a few thousand features), 3 stages at most.
+const SMALL = ['--window', '12x12', '--max-stages', '3', '--max-weak', '20', '--negatives', '200', '--stage-detection', '0.98', '--seed', '5', '--no-timing', '--quiet'];
+
+beforeAll(async () => {
+  data = await writeSyntheticTrainingData(root, { positives: 120, backgrounds: 6, size: 12, backgroundWidth: 120, backgroundHeight: 90, seed: 'train-cli' });
+});
+
+function train(out: string, extra: string[] = []): ReturnType<typeof runCli> {
+  return runCli(['train', '--positives', data.positives, '--backgrounds', data.backgrounds, '--out', out, ...SMALL, ...extra]);
+}
+
+describe('rectboost train', () => {
+  it('writes a valid model whose stages each met their targets', () => {
+    const out = join(root, 'model.json');
+    const result = train(out, ['--workers', '1']);
+    expect(result.stderr).toBe('');
+    expect(result.status).toBe(0);
+    const model = parseCascadeModel(readFileSync(out, 'utf8'), out);
+    expect(model.stages.length).toBeGreaterThanOrEqual(2);
+    for (const stage of model.stages) {
+      expect(stage.training!.detectionRate).toBeGreaterThanOrEqual(0.98);
+      if (stage.training!.stoppedBecause === 'targets-met') expect(stage.training!.falsePositiveRate).toBeLessThanOrEqual(0.5);
+    }
+    expect(model.training!.data.positives).toBe(120);
+    expect(model.training!.timing).toBeUndefined();
+    expect(existsSync(`${out.replace(/\.json$/, '')}.checkpoint`)).toBe(false);
+  });
+
+  it('is deterministic: same data, options and seed give byte-identical models, with 1 or 2 workers', () => {
+    const a = join(root, 'same-a.json');
+    const b = join(root, 'same-b.json');
+    const c = join(root, 'same-c.json');
+    expect(train(a, ['--workers', '1']).status).toBe(0);
+    expect(train(b, ['--workers', '1']).status).toBe(0);
+    expect(train(c, ['--workers', '2']).status).toBe(0);
+    expect(readFileSync(b, 'utf8')).toBe(readFileSync(a, 'utf8'));
+    expect(readFileSync(c, 'utf8')).toBe(readFileSync(a, 'utf8'));
+  });
+
+  it('resumes after Ctrl-C to the same model as an uninterrupted run', async () => {
+    const whole = join(root, 'whole.json');
+    expect(train(whole, ['--workers', '1']).status).toBe(0);
+    const out = join(root, 'resumed.json');
+    const args = ['train', '--positives', data.positives, '--backgrounds', data.backgrounds, '--out', out, ...SMALL.filter((a) => a !== '--quiet'), '--workers', '1'];
+    const child = spawn(process.execPath, [BIN, ...args], { stdio: ['ignore', 'pipe', 'pipe'] });
+    let stderr = '';
+    let signalled = false;
+    child.stderr.on('data', (chunk: Buffer) => {
+      stderr += chunk.toString();
+      if (!signalled && /stage 1 saved/.test(stderr)) {
+        signalled = true;
+        child.kill('SIGINT');
+      }
+    });
+    const status = await new Promise<number | null>((resolve) => child.on('close', resolve));
+    expect(signalled).toBe(true);
+    expect(status).toBe(1);
+    expect(stderr).toMatch(/Training interrupted; finished stages are saved in .*resumed\.checkpoint\. Run the same command with --resume to continue\./);
+    expect(existsSync(out)).toBe(false);
+    const resumed = runCli([...args, '--resume']);
+    expect(resumed.status).toBe(0);
+    expect(resumed.stderr).toMatch(/resuming after [12] finished stage/);
+    expect(readFileSync(out, 'utf8')).toBe(readFileSync(whole, 'utf8'));
+  });
+
+  it('refuses to resume with different options, naming the difference', async () => {
+    const out = join(root, 'mismatch.json');
+    const checkpoint = join(root, 'mismatch.checkpoint');
+    mkdirSync(checkpoint, { recursive: true });
+    writeFileSync(join(checkpoint, 'progress.json'), JSON.stringify({ format: 'rectboost-checkpoint', version: 1, fingerprint: { booster: 'discrete' }, stageSeconds: [], model: {} }));
+    const result = train(out, ['--resume']);
+    expect(result.status).toBe(1);
+    expect(result.stderr).toMatch(/was made with booster = "discrete", but this run has "gentle"/);
+  });
+});
+
+describe('rectboost train refuses bad input before any work, leaving no output file', () => {
+  const cases: Array<[string, () => string[], number, RegExp]> = [
+    ['too few positives', () => ['--positives', fewPositives(), '--backgrounds', data.backgrounds], 1, /needs at least 3 positive patches; .* has 2/],
+    ['a window bigger than every background', () => ['--positives', data.positives, '--backgrounds', data.backgrounds, '--window', '64x64'], 1, /smaller than the 64×64 window/],
+    ['an unreadable folder', () => ['--positives', join(root, 'nowhere'), '--backgrounds', data.backgrounds], 1, /Positives .*nowhere do not exist or cannot be read\./],
+    ['an unknown booster', () => ['--positives', data.positives, '--backgrounds', data.backgrounds, '--booster', 'fancy'], 2, /--booster must be one of discrete, gentle; received "fancy"\./],
+    ['a rate outside its range', () => ['--positives', data.positives, '--backgrounds', data.backgrounds, '--stage-false-positive', '1.5'], 2, /--stage-false-positive must be a number from 0\.001 to 0\.999/],
+    ['corrupt background images', () => ['--positives', data.positives, '--backgrounds', corruptBackgrounds()], 1, /2 of 3 background images cannot be used; .*--skip-bad[\s\S]*broken-1\.png[\s\S]*broken-2\.png/],
+  ];
+  for (const [name, args, status, message] of cases) {
+    it(name, () => {
+      const out = join(root, `bad-${name.replace(/\W+/g, '-')}.json`);
+      const result = runCli(['train', ...args(), '--out', out, '--window', '12x12', '--quiet', ...(name.includes('window') ? ['--window', '64x64'] : [])]);
+      expect(result.status).toBe(status);
+      expect(result.stderr).toMatch(message);
+      expect(result.stderr).not.toMatch(/\n\s+at /);
+      expect(existsSync(out)).toBe(false);
+    });
+  }
+});
+
+function fewPositives(): string {
+  const folder = join(root, 'few');
+  mkdirSync(folder, { recursive: true });
+  for (const name of ['p0000.png', 'p0001.png']) writeFileSync(join(folder, name), readFileSync(join(data.positives, name)));
+  return folder;
+}
+
+function corruptBackgrounds(): string {
+  const folder = join(root, 'corrupt-backgrounds');
+  mkdirSync(folder, { recursive: true });
+  writeFileSync(join(folder, 'good.png'), readFileSync(join(data.backgrounds, 'b000.png')));
+  writeFileSync(join(folder, 'broken-1.png'), 'not an image');
+  writeFileSync(join(folder, 'broken-2.png'), Buffer.alloc(0));
+  return folder;
+}
