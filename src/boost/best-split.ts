@@ -21,10 +21,17 @@ export interface SplitCandidate {
   readonly aboveNegative: number;
 }
 
-/** The histogram arrays one thread reuses across calls (4 interleaved copies × 2 classes). */
+/** The histogram arrays one thread reuses: 2 features × 2 classes × 2 interleaved copies × 256 bins. */
 export function createSplitScratch(): Float64Array {
   return new Float64Array(8 * BIN_COUNT);
 }
+
+// Layout of one feature's histograms inside the scratch, from its slot start:
+// positives copy 0, positives copy 1, negatives copy 0, negatives copy 1.
+const POSITIVE_ODD = 256;
+const NEGATIVE_EVEN = 512;
+const NEGATIVE_ODD = 768;
+const SLOT = 1024;
 
 /**
  * Finds the best split over features featureStart..featureEnd−1 of a response
@@ -33,10 +40,12 @@ export function createSplitScratch(): Float64Array {
  * Per feature: one pass over its row builds weighted histograms — positives first,
  * then negatives, so the class is known from the loop and no label is read — then a
  * cumulative scan over the 255 bin edges. Linear in samples, no sort.
- * Four histograms interleaved by sample index (s mod 4) keep consecutive updates of
- * the same bin from waiting on each other; they are summed in a fixed order, so
- * a feature's sums depend only on its row and the weights, never on which thread
- * or partition handles it.
+ * Speed: features go two at a time, so each weight is loaded once for two rows, and
+ * each feature's histogram has two copies (even and odd samples), so the four
+ * read-modify-writes in flight never wait on each other. A lone last feature takes
+ * the same path with its twin's work skipped; either way a feature's sums are added
+ * in one fixed order, so they depend only on its row and the weights — never on the
+ * partition or thread that handles it.
  * Ties: within a feature the lowest bin wins, across features the lowest index
  * (strict < in ascending order), which makes the reduction over workers
  * (lowest error, then lowest feature index) identical to one sequential scan.
@@ -56,92 +65,114 @@ export function searchBestSplit(
   const gentle = booster === 'gentle';
   let best: SplitCandidate | null = null;
   let bestError = Infinity;
-  for (let f = featureStart; f < featureEnd; f++) {
+  const positivePairs = positiveCount - (positiveCount & 1);
+  const negativePairs = positiveCount + ((n - positiveCount) & ~1);
+  for (let f = featureStart; f < featureEnd; f += 2) {
+    const twin = f + 1 < featureEnd;
+    const first = f * n;
+    // Without a twin, the second row reads the first again into the unused slot.
+    const second = twin ? first + n : first;
     h.fill(0);
-    const row = f * n;
     let s = 0;
-    const positiveEnd = positiveCount - 3;
-    for (; s < positiveEnd; s += 4) {
-      h[bins[row + s]!]! += weights[s]!;
-      h[256 + bins[row + s + 1]!]! += weights[s + 1]!;
-      h[512 + bins[row + s + 2]!]! += weights[s + 2]!;
-      h[768 + bins[row + s + 3]!]! += weights[s + 3]!;
+    for (; s < positivePairs; s += 2) {
+      const even = weights[s]!;
+      const odd = weights[s + 1]!;
+      h[bins[first + s]!]! += even;
+      h[POSITIVE_ODD + bins[first + s + 1]!]! += odd;
+      h[SLOT + bins[second + s]!]! += even;
+      h[SLOT + POSITIVE_ODD + bins[second + s + 1]!]! += odd;
     }
-    for (; s < positiveCount; s++) h[bins[row + s]!]! += weights[s]!;
-    const negativeEnd = n - 3;
-    for (; s < negativeEnd; s += 4) {
-      h[1024 + bins[row + s]!]! += weights[s]!;
-      h[1280 + bins[row + s + 1]!]! += weights[s + 1]!;
-      h[1536 + bins[row + s + 2]!]! += weights[s + 2]!;
-      h[1792 + bins[row + s + 3]!]! += weights[s + 3]!;
+    if (s < positiveCount) {
+      h[bins[first + s]!]! += weights[s]!;
+      h[SLOT + bins[second + s]!]! += weights[s]!;
+      s++;
     }
-    for (; s < n; s++) h[1024 + bins[row + s]!]! += weights[s]!;
-
-    // Fold the four copies into the first one of each class, and total them.
-    let positiveTotal = 0;
-    let negativeTotal = 0;
-    let lastBin = 0;
-    for (let b = 0; b < 256; b++) {
-      const positive = h[b]! + h[256 + b]! + h[512 + b]! + h[768 + b]!;
-      const negative = h[1024 + b]! + h[1280 + b]! + h[1536 + b]! + h[1792 + b]!;
-      h[b] = positive;
-      h[1024 + b] = negative;
-      positiveTotal += positive;
-      negativeTotal += negative;
-      if (positive !== 0 || negative !== 0) lastBin = b;
+    for (; s < negativePairs; s += 2) {
+      const even = weights[s]!;
+      const odd = weights[s + 1]!;
+      h[NEGATIVE_EVEN + bins[first + s]!]! += even;
+      h[NEGATIVE_ODD + bins[first + s + 1]!]! += odd;
+      h[SLOT + NEGATIVE_EVEN + bins[second + s]!]! += even;
+      h[SLOT + NEGATIVE_ODD + bins[second + s + 1]!]! += odd;
     }
-    const total = positiveTotal + negativeTotal;
-    let positiveBelow = 0;
-    let negativeBelow = 0;
-    let featureError = Infinity;
-    let featureBin = 0;
-    // Edges 1..lastBin leave weight on both sides; an empty bin before edge b
-    // repeats the split of edge b − 1, so it is skipped.
-    for (let b = 1; b <= lastBin; b++) {
-      const positive = h[b - 1]!;
-      const negative = h[1024 + b - 1]!;
-      if (positive === 0 && negative === 0) continue;
-      positiveBelow += positive;
-      negativeBelow += negative;
-      let error: number;
-      if (gentle) {
-        const positiveAbove = positiveTotal - positiveBelow;
-        const negativeAbove = negativeTotal - negativeBelow;
-        const below = positiveBelow + negativeBelow;
-        const above = positiveAbove + negativeAbove;
-        const differenceBelow = positiveBelow - negativeBelow;
-        const differenceAbove = positiveAbove - negativeAbove;
-        error = total - (below > 0 ? (differenceBelow * differenceBelow) / below : 0) - (above > 0 ? (differenceAbove * differenceAbove) / above : 0);
-      } else {
-        const positivesAboveError = positiveBelow + (negativeTotal - negativeBelow);
-        const positivesBelowError = negativeBelow + (positiveTotal - positiveBelow);
-        error = positivesAboveError <= positivesBelowError ? positivesAboveError : positivesBelowError;
+    if (s < n) {
+      h[NEGATIVE_EVEN + bins[first + s]!]! += weights[s]!;
+      h[SLOT + NEGATIVE_EVEN + bins[second + s]!]! += weights[s]!;
+    }
+    for (let member = 0; member < (twin ? 2 : 1); member++) {
+      const candidate = scanHistograms(h, member * SLOT, f + member, gentle);
+      if (candidate !== null && candidate.error < bestError) {
+        bestError = candidate.error;
+        best = candidate;
       }
-      if (error < featureError) {
-        featureError = error;
-        featureBin = b;
-      }
-    }
-    if (featureBin > 0 && featureError < bestError) {
-      bestError = featureError;
-      let positiveBelowAtBest = 0;
-      let negativeBelowAtBest = 0;
-      for (let b = 0; b < featureBin; b++) {
-        positiveBelowAtBest += h[b]!;
-        negativeBelowAtBest += h[1024 + b]!;
-      }
-      best = {
-        feature: f,
-        bin: featureBin,
-        error: featureError,
-        belowPositive: positiveBelowAtBest,
-        belowNegative: negativeBelowAtBest,
-        abovePositive: positiveTotal - positiveBelowAtBest,
-        aboveNegative: negativeTotal - negativeBelowAtBest,
-      };
     }
   }
   return best;
+}
+
+/**
+ * Folds one feature's histogram copies (positives into slot + b, negatives into
+ * slot + 512 + b) and scans the edges for its best split; null without a split.
+ */
+function scanHistograms(h: Float64Array, slot: number, feature: number, gentle: boolean): SplitCandidate | null {
+  let positiveTotal = 0;
+  let negativeTotal = 0;
+  let lastBin = 0;
+  for (let b = 0; b < 256; b++) {
+    const positive = h[slot + b]! + h[slot + POSITIVE_ODD + b]!;
+    const negative = h[slot + NEGATIVE_EVEN + b]! + h[slot + NEGATIVE_ODD + b]!;
+    h[slot + b] = positive;
+    h[slot + NEGATIVE_EVEN + b] = negative;
+    positiveTotal += positive;
+    negativeTotal += negative;
+    if (positive !== 0 || negative !== 0) lastBin = b;
+  }
+  const total = positiveTotal + negativeTotal;
+  let positiveBelow = 0;
+  let negativeBelow = 0;
+  let featureError = Infinity;
+  let featureBin = 0;
+  let positiveBelowAtBest = 0;
+  let negativeBelowAtBest = 0;
+  // Edges 1..lastBin leave weight on both sides; an empty bin before edge b
+  // repeats the split of edge b − 1, so it is skipped.
+  for (let b = 1; b <= lastBin; b++) {
+    const positive = h[slot + b - 1]!;
+    const negative = h[slot + NEGATIVE_EVEN + b - 1]!;
+    if (positive === 0 && negative === 0) continue;
+    positiveBelow += positive;
+    negativeBelow += negative;
+    let error: number;
+    if (gentle) {
+      const positiveAbove = positiveTotal - positiveBelow;
+      const negativeAbove = negativeTotal - negativeBelow;
+      const below = positiveBelow + negativeBelow;
+      const above = positiveAbove + negativeAbove;
+      const differenceBelow = positiveBelow - negativeBelow;
+      const differenceAbove = positiveAbove - negativeAbove;
+      error = total - (below > 0 ? (differenceBelow * differenceBelow) / below : 0) - (above > 0 ? (differenceAbove * differenceAbove) / above : 0);
+    } else {
+      const positivesAboveError = positiveBelow + (negativeTotal - negativeBelow);
+      const positivesBelowError = negativeBelow + (positiveTotal - positiveBelow);
+      error = positivesAboveError <= positivesBelowError ? positivesAboveError : positivesBelowError;
+    }
+    if (error < featureError) {
+      featureError = error;
+      featureBin = b;
+      positiveBelowAtBest = positiveBelow;
+      negativeBelowAtBest = negativeBelow;
+    }
+  }
+  if (featureBin === 0) return null;
+  return {
+    feature,
+    bin: featureBin,
+    error: featureError,
+    belowPositive: positiveBelowAtBest,
+    belowNegative: negativeBelowAtBest,
+    abovePositive: positiveTotal - positiveBelowAtBest,
+    aboveNegative: negativeTotal - negativeBelowAtBest,
+  };
 }
 
 /** Picks the better of two candidates: lower error, then lower feature index. */
