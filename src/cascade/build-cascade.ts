@@ -68,7 +68,7 @@ export type TrainingEvent =
   | { readonly phase: 'stage-finished'; readonly report: StageReport };
 
 /** Why training ended. */
-export type CascadeStopReason = 'target-reached' | 'max-stages' | 'backgrounds-exhausted' | 'positives-exhausted';
+export type CascadeStopReason = 'target-reached' | 'max-stages' | 'backgrounds-exhausted' | 'positives-exhausted' | 'stage-not-improving';
 
 export interface CascadeTrainingResult {
   readonly stages: Stage[];
@@ -190,6 +190,15 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
         });
       },
     });
+    if (result.falsePositiveRate >= 1) {
+      // A stage that lets every negative through would only slow detection down; more of the
+      // same data cannot fix it, so stop and say what would.
+      return finish(
+        'stage-not-improving',
+        `Stopped: stage ${stageIndex + 1} could not reject any negative while keeping ${options.stageDetectionRate} of the validation positives ` +
+          `(boosting ended with ${result.stoppedBecause}); add more varied positives, or lower --stage-detection.`,
+      );
+    }
     const stage: Stage = {
       threshold: result.stage.threshold,
       weakClassifiers: result.stage.weakClassifiers,

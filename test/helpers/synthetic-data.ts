@@ -13,14 +13,14 @@ export function syntheticObject(size: number, random: () => number): GrayImage {
   const data = new Uint8Array(size * size);
   const cx = size / 2 + (random() - 0.5) * 1.5;
   const cy = size / 2 + (random() - 0.5) * 1.5;
-  const radius = size * (0.28 + random() * 0.06);
-  const contrast = 50 + random() * 70;
+  const radius = size * (0.24 + random() * 0.12);
+  const contrast = 25 + random() * 70;
   const base = 70 + random() * 80;
   for (let y = 0; y < size; y++) {
     for (let x = 0; x < size; x++) {
       const d = Math.hypot(x + 0.5 - cx, y + 0.5 - cy) / radius;
       const shape = d < 1 ? 1 - d * d : d < 1.5 ? -0.6 : 0;
-      const value = base + contrast * shape + (random() - 0.5) * 24;
+      const value = base + contrast * shape + (random() - 0.5) * 50;
       data[y * size + x] = Math.max(0, Math.min(255, Math.round(value)));
     }
   }
@@ -32,10 +32,13 @@ export function syntheticBackground(width: number, height: number, random: () =>
   const stripes = 4 + random() * 12;
   const angle = random() * Math.PI;
   const gradient = random() * 80;
+  // Plain bright spots (no dark ring) as hard look-alikes.
+  const spots = Array.from({ length: 6 }, () => ({ x: random() * width, y: random() * height, r: 2 + random() * 8, level: 40 + random() * 60 }));
   for (let y = 0; y < height; y++) {
     for (let x = 0; x < width; x++) {
       const along = x * Math.cos(angle) + y * Math.sin(angle);
-      const value = 90 + gradient * (x / width) + 35 * Math.sin(along / stripes) + (random() - 0.5) * 60;
+      let value = 90 + gradient * (x / width) + 35 * Math.sin(along / stripes) + (random() - 0.5) * 60;
+      for (const spot of spots) if (Math.hypot(x - spot.x, y - spot.y) < spot.r) value += spot.level;
       data[y * width + x] = Math.max(0, Math.min(255, Math.round(value)));
     }
   }
