@@ -52,7 +52,7 @@ export interface StageReport {
   readonly weakClassifiers: number;
   readonly detectionRate: number;
   readonly falsePositiveRate: number;
-  /** Product of the false-positive rates of all stages so far. */
+  /** Product of the false-positive rates of all stages so far (each at least 1/negatives, see resolvableRate). */
   readonly overallFalsePositiveRate: number;
   readonly negatives: number;
   readonly windowsScanned: number;
@@ -134,7 +134,7 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
   });
 
   for (;;) {
-    const overall = reports.reduce((product, report) => product * report.falsePositiveRate, 1);
+    const overall = reports.reduce((product, report) => product * resolvableRate(report.falsePositiveRate, report.negatives), 1);
     if (stages.length > 0 && overall <= options.targetFalsePositiveRate) {
       return finish('target-reached', `Reached the target false-positive rate: ${formatRate(overall)} ≤ ${formatRate(options.targetFalsePositiveRate)} after ${stages.length} stages.`);
     }
@@ -226,7 +226,10 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
 function reportOfRecordedStage(stage: Stage, stageIndex: number, stages: readonly Stage[]): StageReport {
   const record = stage.training;
   let overall = 1;
-  for (let k = 0; k <= stageIndex; k++) overall *= stages[k]?.training?.falsePositiveRate ?? 1;
+  for (let k = 0; k <= stageIndex; k++) {
+    const training = stages[k]?.training;
+    overall *= training === undefined ? 1 : resolvableRate(training.falsePositiveRate, training.negatives);
+  }
   return {
     stageIndex,
     weakClassifiers: stage.weakClassifiers.length,
@@ -239,6 +242,16 @@ function reportOfRecordedStage(stage: Stage, stageIndex: number, stages: readonl
     stoppedBecause: record?.stoppedBecause ?? 'targets-met',
     featuresUsed: record?.featuresUsed ?? 0,
   };
+}
+
+/**
+ * A stage's false-positive rate as far as its negatives can show it: N negatives
+ * cannot measure a rate below 1/N, so a stage that rejected all of them counts as
+ * 1/N in the overall product. Without this floor one stage that happens to reject
+ * its few training negatives would end training at once.
+ */
+export function resolvableRate(rate: number, negatives: number): number {
+  return Math.max(rate, 1 / Math.max(1, negatives));
 }
 
 /** Seeded split of positives into training and validation; mirrored copies follow their source. */
