@@ -33,3 +33,32 @@ export { decodeGrayImageFile, decodeGrayImageBytes, hasImageExtension, IMAGE_EXT
 export { encodeGrayPng, encodeRgbPng, type RgbImage } from './io/encode-image.js';
 export { writeFileAtomic } from './io/atomic-write.js';
 export { listImageFiles, listImageFilesOfAll } from './data/list-images.js';
+
+// --- Detection, metrics, evaluation, export, inspection (issue 5) ---
+export { detectorCascadeFromModel, type DetectorCascade, type DetectorStage, type DetectorWeakClassifier } from './detect/detector-cascade.js';
+export {
+  scanImage,
+  scanScales,
+  resolveScanOptions,
+  DEFAULT_SCAN_OPTIONS,
+  type ScanOptions,
+  type ScanResult,
+  type ScanStatistics,
+  type RawHits,
+} from './detect/scan-image.js';
+export { mergeDetections, MERGE_METHODS, DEFAULT_MERGE_OPTIONS, type Detection, type MergeMethod, type MergeOptions } from './detect/merge-detections.js';
+export { intersectionOverUnion, type Box } from './metrics/intersection-over-union.js';
+export { matchDetections, type ImageDetectionsAndTruth, type MatchedDetection, type MatchResult } from './metrics/match-detections.js';
+export { precisionRecallCurve, averagePrecision, detectionRateAtFalsePositives, type PrecisionRecallCurve } from './metrics/precision-recall.js';
+export { missRateCurve, logAverageMissRate, LOG_AVERAGE_REFERENCE_POINTS, type MissRateCurve } from './metrics/miss-rate.js';
+export { rocCurve, type RocCurve } from './metrics/roc-curve.js';
+export {
+  exportRuntimeCascade,
+  runtimeFileFromDetector,
+  parseRuntimeCascade,
+  runtimeCascadeFromValue,
+  RUNTIME_CASCADE_FORMAT,
+  RUNTIME_CASCADE_VERSION,
+  RUNTIME_LIMITS,
+  type RuntimeCascadeFile,
+} from './cascade/runtime-export.js';
