@@ -62,3 +62,11 @@ export {
   RUNTIME_LIMITS,
   type RuntimeCascadeFile,
 } from './cascade/runtime-export.js';
+export { cascadeDepthScores, evaluatePatches, type PatchEvaluation, type StagePassRates } from './metrics/patch-evaluation.js';
+export { evaluateDetections, summarizeScans, type DetectionEvaluation, type ScanSummary } from './metrics/detection-evaluation.js';
+export { retuneCascade, backgroundPassRates, type RetuneOptions, type RetuneResult, type RetunedStage } from './cascade/retune.js';
+export { loadAnnotations, parseAnnotations, type AnnotatedImage } from './data/annotations.js';
+export { drawBoxes, DETECTION_COLOUR, TRUTH_COLOUR, type RgbColour } from './io/draw-boxes.js';
+export { drawFeatureSheet, POSITIVE_CELL_COLOUR, NEGATIVE_CELL_COLOUR } from './io/draw-features.js';
+export { createScanPool, type ScanPool, type TimedScanResult } from './parallel/scan-pool.js';
+export { detectFiles, type DetectFilesOptions, type FileOutcome, type ImageDetections } from './parallel/detect-files.js';

@@ -73,3 +73,33 @@ export function retuneCascade(model: CascadeModel, positives: WindowSamples, opt
   });
   return { model: { ...model, stages }, stages: report, overallDetectionRate: alive.length / positives.count };
 }
+
+/**
+ * Per-stage and overall false-positive rates on background windows from scan
+ * counters (every background window is a negative): stage k's rate is the share
+ * of non-flat windows reaching stage k that pass it; the overall rate is accepted
+ * windows over all scanned windows.
+ */
+export function backgroundPassRates(statistics: ReadonlyArray<{ windowsScanned: number; flatWindows: number; rejectedAtStage: readonly number[]; accepted: number }>): {
+  readonly windows: number;
+  readonly stageFalsePositiveRates: readonly number[];
+  readonly overallFalsePositiveRate: number;
+} {
+  let windows = 0;
+  let reaching = 0;
+  let accepted = 0;
+  const stages = Math.max(0, ...statistics.map((s) => s.rejectedAtStage.length));
+  const rejected = new Array<number>(stages).fill(0);
+  for (const s of statistics) {
+    windows += s.windowsScanned;
+    reaching += s.windowsScanned - s.flatWindows;
+    accepted += s.accepted;
+    s.rejectedAtStage.forEach((count, k) => (rejected[k]! += count));
+  }
+  const stageFalsePositiveRates = rejected.map((count) => {
+    const rateHere = reaching > 0 ? (reaching - count) / reaching : 0;
+    reaching -= count;
+    return rateHere;
+  });
+  return { windows, stageFalsePositiveRates, overallFalsePositiveRate: windows > 0 ? accepted / windows : 0 };
+}

@@ -1,5 +1,10 @@
 import { Command, CommanderError } from 'commander';
 import { registerCheckCommand } from './commands/check.js';
+import { registerDetectCommand } from './commands/detect.js';
+import { registerEvaluateCommand } from './commands/evaluate.js';
+import { registerExportCommand } from './commands/export.js';
+import { registerInspectCommand } from './commands/inspect.js';
+import { registerTuneCommand } from './commands/tune.js';
 import { EXIT_USAGE, exitCodeFor, formatError } from './messages.js';
 
 /** Commands of DESIGN §2 that later work will fill in; until then they say so. */
@@ -23,6 +28,11 @@ export function buildProgram(): Command {
     .showHelpAfterError('(run with --help for usage)')
     .exitOverride();
   registerCheckCommand(program);
+  registerDetectCommand(program);
+  registerEvaluateCommand(program);
+  registerTuneCommand(program);
+  registerExportCommand(program);
+  registerInspectCommand(program);
   const registered = new Set(program.commands.map((command) => command.name()));
   for (const planned of PLANNED_COMMANDS) {
     if (registered.has(planned.name)) continue;
