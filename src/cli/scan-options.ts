@@ -14,6 +14,7 @@ export interface ScanOptionText {
   minSupport: string;
   concurrency: string;
   workers?: string;
+  quiet?: boolean;
 }
 
 /** Adds the scan and merge options of DESIGN §2 to a command. */
@@ -27,7 +28,8 @@ export function addScanOptions(command: Command): Command {
     .option('--overlap <iou>', 'IoU above which hits overlap when merging', '0.3')
     .option('--min-support <count>', 'keep detections backed by at least this many raw hits', '1')
     .option('--concurrency <count>', 'images decoded at once', '4')
-    .option('--workers <count>', 'scan threads (default: all cores; 0 = no threads)');
+    .option('--workers <count>', 'scan threads (default: all cores; 0 = no threads)')
+    .option('--quiet', 'no progress line on stderr');
 }
 
 /** Parses the shared options; usage errors name the option. */

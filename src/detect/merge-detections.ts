@@ -48,15 +48,16 @@ export function mergeDetections(hits: RawHits, options: MergeOptions = {}): Dete
   if (method === 'none') {
     detections = order.map((i) => ({ box: boxes[i]!, score: hits.score[i]!, support: 1 }));
   } else if (method === 'nms') {
+    const neighbours = overlappingPairs(boxes, overlap);
+    const rank = new Int32Array(hits.count);
+    order.forEach((i, position) => (rank[i] = position));
     detections = [];
     const suppressed = new Uint8Array(hits.count);
-    for (let a = 0; a < order.length; a++) {
-      const i = order[a]!;
+    for (const i of order) {
       if (suppressed[i]) continue;
       let support = 1;
-      for (let b = a + 1; b < order.length; b++) {
-        const j = order[b]!;
-        if (!suppressed[j] && intersectionOverUnion(boxes[i]!, boxes[j]!) > overlap) {
+      for (const j of neighbours[i]!) {
+        if (rank[j]! > rank[i]! && !suppressed[j]) {
           suppressed[j] = 1;
           support++;
         }
@@ -73,6 +74,29 @@ function compareHits(hits: RawHits, a: number, b: number): number {
   return hits.score[b]! - hits.score[a]! || hits.x[a]! - hits.x[b]! || hits.y[a]! - hits.y[b]! || hits.width[a]! - hits.width[b]!;
 }
 
+/**
+ * For each box, the other boxes whose IoU with it exceeds `overlap`. A sweep
+ * over boxes sorted by x only compares boxes whose x-ranges intersect, so sparse
+ * hits cost about n log n instead of n².
+ */
+function overlappingPairs(boxes: readonly Box[], overlap: number): number[][] {
+  const byX = boxes.map((_, i) => i).sort((a, b) => boxes[a]![0] - boxes[b]![0] || a - b);
+  const neighbours: number[][] = boxes.map(() => []);
+  for (let a = 0; a < byX.length; a++) {
+    const i = byX[a]!;
+    const right = boxes[i]![0] + boxes[i]![2];
+    for (let b = a + 1; b < byX.length; b++) {
+      const j = byX[b]!;
+      if (boxes[j]![0] >= right) break;
+      if (intersectionOverUnion(boxes[i]!, boxes[j]!) > overlap) {
+        neighbours[i]!.push(j);
+        neighbours[j]!.push(i);
+      }
+    }
+  }
+  return neighbours;
+}
+
 function meanOfGroups(hits: RawHits, boxes: Box[], order: number[], overlap: number): Detection[] {
   const parent = boxes.map((_, i) => i);
   const root = (i: number): number => {
@@ -82,11 +106,9 @@ function meanOfGroups(hits: RawHits, boxes: Box[], order: number[], overlap: num
     }
     return i;
   };
-  for (let i = 0; i < boxes.length; i++) {
-    for (let j = i + 1; j < boxes.length; j++) {
-      if (intersectionOverUnion(boxes[i]!, boxes[j]!) > overlap) parent[root(j)] = root(i);
-    }
-  }
+  overlappingPairs(boxes, overlap).forEach((list, i) => {
+    for (const j of list) parent[root(j)] = root(i);
+  });
   // Groups in the order of their best hit, so the output is sorted by score.
   const groups = new Map<number, number[]>();
   for (const i of order) {

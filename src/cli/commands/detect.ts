@@ -7,6 +7,7 @@ import { DETECTION_COLOUR, drawBoxes } from '../../io/draw-boxes.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
 import { detectFiles, type ImageDetections } from '../../parallel/detect-files.js';
 import { loadCascadeFile } from '../load-cascade-file.js';
+import { createProgressLine } from '../progress-line.js';
 import { addScanOptions, parseScanOptions, type ScanOptionText } from '../scan-options.js';
 
 /** Version of the detections JSON Lines layout (DESIGN §3). */
@@ -44,13 +45,16 @@ export function registerDetectCommand(program: Command): void {
       const lines: string[] = [];
       const failures: string[] = [];
       const drawnNames = new Set<string>();
+      const progress = createProgressLine('detect: images', files.length, options.quiet === true);
       for await (const outcome of detectFiles(detector, files, {
         scan: parsed.scan,
         merge: parsed.merge,
         concurrency: parsed.concurrency,
         ...(parsed.workers === undefined ? {} : { workers: parsed.workers }),
       })) {
+        progress.advance();
         if (outcome.kind === 'failed') {
+          progress.finish();
           const message = outcome.error instanceof Error ? outcome.error.message : String(outcome.error);
           failures.push(message);
           process.stderr.write(`rectboost: skipped: ${message}\n`);
@@ -68,6 +72,7 @@ export function registerDetectCommand(program: Command): void {
           await writeFileAtomic(join(options.draw, name), await encodeRgbPng(picture));
         }
       }
+      progress.finish();
       if (options.out !== undefined) await writeFileAtomic(options.out, lines.length > 0 ? `${lines.join('\n')}\n` : '');
       if (failures.length > 0) {
         throw new RectboostError(

@@ -10,6 +10,7 @@ import { detectFiles } from '../../parallel/detect-files.js';
 import type { ScanStatistics } from '../../detect/scan-image.js';
 import type { Box } from '../../metrics/intersection-over-union.js';
 import { loadCascadeFile } from '../load-cascade-file.js';
+import { createProgressLine } from '../progress-line.js';
 import { parseNumber } from '../parse-options.js';
 import { addScanOptions, parseScanOptions, type ScanOptionText } from '../scan-options.js';
 
@@ -60,16 +61,22 @@ export function registerEvaluateCommand(program: Command): void {
         const entries: Array<{ detections: Array<{ box: Box; score: number }>; truth: readonly Box[] }> = [];
         const statistics: ScanStatistics[] = [];
         let milliseconds = 0;
+        const progress = createProgressLine('evaluate: images', truth.length, options.quiet === true);
         for await (const outcome of detectFiles(detector, truth.map((t) => t.image), {
           scan: parsed.scan, merge: parsed.merge, concurrency: parsed.concurrency,
           ...(parsed.workers === undefined ? {} : { workers: parsed.workers }),
         })) {
-          if (outcome.kind === 'failed') throw outcome.error;
+          progress.advance();
+          if (outcome.kind === 'failed') {
+            progress.finish();
+            throw outcome.error;
+          }
           const index = entries.length;
           entries.push({ detections: outcome.result.detections.map((d) => ({ box: d.box, score: d.score })), truth: truth[index]!.boxes });
           statistics.push(outcome.result.statistics);
           milliseconds += outcome.result.milliseconds;
         }
+        progress.finish();
         const result = evaluateDetections(entries, iou);
         const speed = summarizeScans(statistics, milliseconds);
         report = { mode: 'detections', model: modelPath, truth: options.truth, ...result, speed };
