@@ -76,5 +76,6 @@ export async function run() {
   console.log(`integral image (sum + squared): ${integralMs.toFixed(2)} ms per 640×480 image`);
   console.log(`detection (integral image + scan, ${statistics.scales} scales): ${scanMs.toFixed(1)} ms per image`);
   console.log(`windows: ${statistics.windowsScanned.toLocaleString('en-US')} per image, ${(statistics.windowsScanned / (scanMs / 1000) / 1e6).toFixed(1)} million windows/s on one core`);
+  console.log(`cost: ${(scanMs * 1e6 / statistics.windowsScanned).toFixed(0)} ns per window, ${(scanMs * 1e6 / statistics.featuresEvaluated).toFixed(1)} ns per weak classifier evaluated`);
   console.log(`mean weak classifiers evaluated per window: ${perWindow.toFixed(2)}; rejected by stage: ${statistics.rejectedAtStage.join(', ')}; flat ${statistics.flatWindows}; accepted ${statistics.accepted} (${detections.length} after nms)`);
 }

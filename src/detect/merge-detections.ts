@@ -11,8 +11,10 @@ export interface Detection {
 
 /** How raw hits become detections. */
 export type MergeMethod = 'nms' | 'mean' | 'none';
+/** Every merge method, in the order the CLI lists them. */
 export const MERGE_METHODS: readonly MergeMethod[] = ['nms', 'mean', 'none'];
 
+/** Options of mergeDetections; defaults in DEFAULT_MERGE_OPTIONS. */
 export interface MergeOptions {
   /** Default 'nms'. */
   readonly method?: MergeMethod;
@@ -22,6 +24,7 @@ export interface MergeOptions {
   readonly minSupport?: number;
 }
 
+/** Defaults of MergeOptions, stated once: nms at IoU 0.3 (common practice), support ≥ 1. */
 export const DEFAULT_MERGE_OPTIONS = { method: 'nms', overlap: 0.3, minSupport: 1 } as const;
 
 /**

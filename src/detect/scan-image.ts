@@ -265,11 +265,10 @@ function scanOneScale(c: ScaledCascade, integral: IntegralImage, statistics: Sca
     // Stage 0 for every window of the row (flat windows are computed too, then discarded).
     let corner = 0;
     for (let weak = 0; weak < firstStageEnd; weak++) {
-      values.fill(0);
-      for (const cornerEnd = weakEnds[weak]!; corner < cornerEnd; corner++) {
-        const coefficient = coefficients[corner]!;
-        for (let column = 0, at = row + offsets[corner]!; column < columns; column++, at += step) values[column]! += coefficient * sum[at]!;
-      }
+      const cornerStart = corner;
+      const cornerEnd = weakEnds[weak]!;
+      corner = cornerEnd;
+      evaluateRow(sum, row, step, columns, offsets, coefficients, cornerStart, cornerEnd, values);
       const split = splitValues[weak]!;
       const below = belowOutputs[weak]!;
       const above = aboveOutputs[weak]!;
@@ -325,3 +324,45 @@ function scanOneScale(c: ScaledCascade, integral: IntegralImage, statistics: Sca
   statistics.featuresEvaluated += features;
   statistics.accepted += accepted;
 }
+
+/**
+ * Raw values of one weak classifier for a row of windows, into `values`.
+ * The common corner counts of the five basic kinds (6 for two cells, 8 for
+ * three, 9 for four) get their offsets and coefficients in locals, which
+ * removes two array reads per corner from the innermost loop. The sum is
+ * accumulated left to right in corner order, exactly as the generic loop
+ * does, so results are bit-identical.
+ */
+function evaluateRow(sum: Float64Array, row: number, step: number, columns: number, offsets: Int32Array, coefficients: Float64Array, start: number, end: number, values: Float64Array): void {
+  const count = end - start;
+  if (count === 6 || count === 8 || count === 9) {
+    const o0 = offsets[start]!, o1 = offsets[start + 1]!, o2 = offsets[start + 2]!, o3 = offsets[start + 3]!, o4 = offsets[start + 4]!, o5 = offsets[start + 5]!;
+    const c0 = coefficients[start]!, c1 = coefficients[start + 1]!, c2 = coefficients[start + 2]!, c3 = coefficients[start + 3]!, c4 = coefficients[start + 4]!, c5 = coefficients[start + 5]!;
+    if (count === 6) {
+      for (let column = 0, base = row; column < columns; column++, base += step) {
+        values[column] = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]!;
+      }
+      return;
+    }
+    const o6 = offsets[start + 6]!, o7 = offsets[start + 7]!;
+    const c6 = coefficients[start + 6]!, c7 = coefficients[start + 7]!;
+    if (count === 8) {
+      for (let column = 0, base = row; column < columns; column++, base += step) {
+        values[column] = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]! + c6 * sum[base + o6]! + c7 * sum[base + o7]!;
+      }
+      return;
+    }
+    const o8 = offsets[start + 8]!;
+    const c8 = coefficients[start + 8]!;
+    for (let column = 0, base = row; column < columns; column++, base += step) {
+      values[column] = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]! + c6 * sum[base + o6]! + c7 * sum[base + o7]! + c8 * sum[base + o8]!;
+    }
+    return;
+  }
+  values.fill(0, 0, columns);
+  for (let k = start; k < end; k++) {
+    const coefficient = coefficients[k]!;
+    for (let column = 0, at = row + offsets[k]!; column < columns; column++, at += step) values[column]! += coefficient * sum[at]!;
+  }
+}
+

@@ -2,8 +2,9 @@ import type { WeakClassifier } from '../cascade/cascade-model.js';
 import { featureCells } from '../features/haar-feature.js';
 import type { RgbImage } from './encode-image.js';
 
-/** Tint of cells with positive weight (warm) and negative weight (cool) in feature drawings. */
+/** Tint of cells with positive weight in feature drawings (warm orange). */
 export const POSITIVE_CELL_COLOUR = [255, 120, 40] as const;
+/** Tint of cells with negative weight in feature drawings (cool blue). */
 export const NEGATIVE_CELL_COLOUR = [40, 120, 255] as const;
 
 /**

@@ -23,6 +23,7 @@ export type FileOutcome =
   | { readonly kind: 'detected'; readonly result: ImageDetections; readonly pixels: GrayImage }
   | { readonly kind: 'failed'; readonly image: string; readonly error: unknown };
 
+/** Options of detectFiles. */
 export interface DetectFilesOptions {
   readonly scan?: ScanOptions;
   readonly merge?: MergeOptions;

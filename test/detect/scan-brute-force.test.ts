@@ -46,3 +46,36 @@ describe('scan against a brute-force twin', () => {
     expect(found.sort()).toEqual(expected.sort());
   });
 });
+
+describe('scan of free-form weighted rectangles (runtime files)', () => {
+  it('accepts exactly what a per-window four-corner sum accepts, for 1- and 3-rectangle classifiers', async () => {
+    const { rectangleSum } = await import('../../src/image/integral-image.js');
+    const { windowStatistics } = await import('../../src/image/window-statistics.js');
+    const one = [{ x: 2, y: 1, width: 5, height: 4, weight: 1 }];
+    const three = [{ x: 0, y: 0, width: 3, height: 3, weight: 2 }, { x: 6, y: 5, width: 4, height: 2, weight: -1 }, { x: 9, y: 0, width: 3, height: 10, weight: -0.5 }];
+    const cascade = {
+      windowWidth: 12, windowHeight: 10,
+      stages: [{ threshold: 0.5, weakClassifiers: [
+        { rectangles: one, splitValue: 300, belowOutput: 0, aboveOutput: 1 },
+        { rectangles: three, splitValue: 0, belowOutput: 0, aboveOutput: 1 },
+      ] }],
+    };
+    const image = randomGrayImage(40, 30, 'free-form');
+    const integral = computeIntegralImage(image);
+    const { hits } = scanImage(cascade, integral, { largestSide: 12 });
+    const expected: string[] = [];
+    for (let y = 0; y + 10 <= 30; y++) for (let x = 0; x + 12 <= 40; x++) {
+      const sigma = windowStatistics(integral, x, y, 12, 10).standardDeviation;
+      let score = 0;
+      for (const weak of cascade.stages[0]!.weakClassifiers) {
+        const value = weak.rectangles.reduce((total, r) => total + r.weight * rectangleSum(integral.sum, integral.stride, x + r.x, y + r.y, r.width, r.height), 0);
+        score += value / sigma < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
+      }
+      if (score >= 0.5) expected.push(`${x},${y}`);
+    }
+    const found = Array.from({ length: hits.count }, (_, i) => `${hits.x[i]},${hits.y[i]}`);
+    expect(expected.length).toBeGreaterThan(20);
+    expect(expected.length).toBeLessThan(31 * 21); // not everything: the test can tell decisions apart
+    expect(found.sort()).toEqual(expected.sort());
+  });
+});
