@@ -2,7 +2,7 @@
 // motorcycle_left.png from reference-data/photos, centre-cropped), scale step
 // 1.25, shift 1. Until the trainer lands, the cascade is built here: seeded
 // random features in stages of 2, 10, 25, 25, 50 weak classifiers (the sizes of
-// the first stages in Viola & Jones 2004 §5.2, from memory), each stage's
+// the first stages in Viola & Jones 2004, from memory), each stage's
 // threshold set on windows of this image drawn at random scales so that about
 // half of the windows reaching it pass (the design's default stage
 // false-positive rate, 0.5). Random features separate nothing, so this is a

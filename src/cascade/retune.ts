@@ -30,7 +30,7 @@ export interface RetuneResult {
 
 /**
  * Resets every stage's threshold for a new detection target without touching
- * the weak classifiers (Viola & Jones 2004 §5.4: stage thresholds trade
+ * the weak classifiers (Viola & Jones 2004, training the cascade: stage thresholds trade
  * detection rate against false positives). Stages are retuned in order; stage k
  * sees only the positives that pass stages 0..k−1 with their new thresholds and
  * takes as threshold the ⌈rate · n⌉-th highest score among them, so that at least

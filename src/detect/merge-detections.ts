@@ -35,7 +35,7 @@ export const DEFAULT_MERGE_OPTIONS = { method: 'nms', overlap: 0.3, minSupport: 
  *   hits whose IoU with it exceeds `overlap`; support counts the hit and those dropped.
  * - `mean`: group hits transitively linked by IoU > `overlap` (union–find), average
  *   each group's boxes, score = the group's best score, support = group size
- *   (Viola & Jones 2004 §5.6 merge overlapping detections into their average).
+ *   (Viola & Jones 2004 merge overlapping detections into their average).
  *
  * Detections with support < minSupport are dropped.
  * @throws RectboostError `invalid-option` for options out of range.

@@ -185,7 +185,7 @@ class HitCollector {
 }
 
 /**
- * Multiscale sliding-window scan of one image (Viola & Jones 2004 §5.2/§5.3:
+ * Multiscale sliding-window scan of one image (Viola & Jones 2004, scanning the detector:
  * the detector, not the image, is scaled; one integral image serves every scale).
  *
  * For each scale s (scanScales) every weak classifier is recompiled once to
@@ -195,7 +195,7 @@ class HitCollector {
  * windows with variance below FLAT_WINDOW_VARIANCE are rejected without
  * evaluating any feature (no division by zero). Feature values are multiplied
  * by 1/σ, exactly as training's stageScores does, and the window leaves at the
- * first stage it fails (early rejection, Viola & Jones 2004 §4).
+ * first stage it fails (early rejection, the attentional cascade of Viola & Jones 2004).
  *
  * @throws RectboostError `invalid-option` for options out of range.
  * @example const { hits } = scanImage(detectorCascadeFromModel(model), computeIntegralImage(image));

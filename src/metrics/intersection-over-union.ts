@@ -6,7 +6,7 @@ export type Box = readonly [x: number, y: number, width: number, height: number]
 
 /**
  * Intersection over union of two boxes: area(A ∩ B) / area(A ∪ B), in [0, 1]
- * (Everingham et al. 2010, PASCAL VOC, §4.4 "bounding box evaluation").
+ * (Everingham et al. 2010, PASCAL VOC detection task, overlap criterion).
  * Areas are continuous (width · height); the VOC devkit's "+1 pixel" convention
  * is not used. Two empty boxes give 0 (no division by zero).
  * @example intersectionOverUnion([0, 0, 10, 10], [5, 0, 10, 10]) // 50 / 150 = 1/3

@@ -22,7 +22,7 @@ export interface MatchResult {
 }
 
 /**
- * Matches detections to truth as PASCAL VOC does (Everingham et al. 2010 §4.4):
+ * Matches detections to truth as PASCAL VOC does (Everingham et al. 2010, detection task):
  * detections are taken in order of decreasing score over the whole data set;
  * each goes to the truth box of its image with the highest IoU; it is a true
  * positive when that IoU ≥ `iouThreshold` and the box is not yet taken,

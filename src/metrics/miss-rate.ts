@@ -7,7 +7,7 @@ export interface MissRateCurve {
   readonly missRate: Float64Array;
 }
 
-/** FPPI = FP / images and miss rate = 1 − recall down the ranked list (Dollár et al. 2012 §3). */
+/** FPPI = FP / images and miss rate = 1 − recall down the ranked list (Dollár et al. 2012). */
 export function missRateCurve(curve: PrecisionRecallCurve, imageCount: number): MissRateCurve {
   const n = curve.recall.length;
   const falsePositivesPerImage = new Float64Array(n + 1);
@@ -20,12 +20,12 @@ export function missRateCurve(curve: PrecisionRecallCurve, imageCount: number): 
   return { falsePositivesPerImage, missRate };
 }
 
-/** The nine FPPI reference points 10^−2, 10^−1.75, …, 10^0 (Dollár et al. 2012 §3.1). */
+/** The nine FPPI reference points 10^−2, 10^−1.75, …, 10^0 (Dollár et al. 2012; from memory). */
 export const LOG_AVERAGE_REFERENCE_POINTS: readonly number[] = Array.from({ length: 9 }, (_, k) => 10 ** (-2 + k / 4));
 
 /**
  * Log-average miss rate (Dollár, Wojek, Schiele & Perona 2012, "Pedestrian
- * detection: an evaluation of the state of the art", §3.1): the geometric mean
+ * detection: an evaluation of the state of the art", evaluation protocol; recalled from memory): the geometric mean
  * of the miss rate sampled at nine FPPI values evenly spaced in log space over
  * [10^−2, 10^0]. At each reference FPPI the sample is the lowest miss rate among
  * operating points whose FPPI does not exceed it (the curve always has the point

@@ -61,7 +61,7 @@ export interface PatchEvaluation {
 }
 
 /**
- * Evaluates a cascade on labelled window-sized patches (Viola & Jones 2004 §5:
+ * Evaluates a cascade on labelled window-sized patches (Viola & Jones 2004:
  * detection and false-positive rates per stage and overall).
  * @example evaluatePatches(cascade, packWindowSamples(faces, 24, 24), packWindowSamples(others, 24, 24))
  */

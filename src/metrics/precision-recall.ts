@@ -37,7 +37,7 @@ export function precisionRecallCurve(match: MatchResult): PrecisionRecallCurve {
 
 /**
  * Average precision with all-point interpolation, the PASCAL VOC definition
- * from 2010 on (Everingham et al. 2010 §4.2; VOC devkit `VOCap`): precision is
+ * from 2010 on (Everingham et al. 2010, detection task; VOC devkit `VOCap`): precision is
  * made monotone (p_interp(r) = max over r' ≥ r of p(r')) and AP is the area
  * under that step curve, Σ (r_{i+1} − r_i) · p_interp(r_{i+1}). In [0, 1]; 0 with no truth.
  * @example one true positive out of two truths, ranked first: AP = 0.5

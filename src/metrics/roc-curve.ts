@@ -9,7 +9,7 @@ export interface RocCurve {
 }
 
 /**
- * ROC of scores on positives against negatives (Fawcett 2006 §4, threshold sweep):
+ * ROC of scores on positives against negatives (Fawcett 2006, "An introduction to ROC analysis": threshold sweep):
  * accept a sample when score ≥ threshold; sweep every distinct score. Samples
  * that the cascade rejects can be given −Infinity (never accepted at a finite threshold).
  * With no positives (or negatives) the corresponding rate is 0.

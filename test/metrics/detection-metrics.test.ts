@@ -5,7 +5,7 @@ import { logAverageMissRate, missRateCurve } from '../../src/metrics/miss-rate.j
 import { averagePrecision, detectionRateAtFalsePositives, precisionRecallCurve } from '../../src/metrics/precision-recall.js';
 import { rocCurve } from '../../src/metrics/roc-curve.js';
 
-// A hand-worked two-image example (PASCAL VOC matching and AP, Everingham et al. 2010 §4.2, §4.4).
+// A hand-worked two-image example (PASCAL VOC matching and AP, Everingham et al. 2010, detection task).
 // Image 0 truth: T1 [0,0,10,10], T2 [20,0,10,10]. Image 1 truth: T3 [0,0,10,10].
 // Detections by score:
 //   0.9 image 0 [0,0,10,10]  IoU(T1) = 1                       → TP
@@ -66,7 +66,7 @@ describe('matching, precision/recall and average precision', () => {
   });
 });
 
-describe('miss rate against false positives per image (Dollár et al. 2012 §3.1)', () => {
+describe('miss rate against false positives per image (Dollár et al. 2012)', () => {
   // The first four detections only (drop the 0.5 one), over 2 images:
   // FPPI 0, 0.5, 0.5, 1 and miss rate 2/3, 2/3, 1/3, 1/3; plus the empty point (0, 1).
   const firstFour = [{ ...images[0]!, detections: images[0]!.detections.slice(0, 3) }, images[1]!];
