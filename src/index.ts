@@ -72,3 +72,39 @@ export {
 } from './boost/train-stage.js';
 export { createBoostingPool, defaultWorkerCount, type BoostingPool } from './parallel/boosting-pool.js';
 export type { MatrixBuildJob, SplitSearchJob } from './parallel/boosting-jobs.js';
+// --- Detection, metrics, evaluation, export, inspection (issue 5) ---
+export { detectorCascadeFromModel, type DetectorCascade, type DetectorStage, type DetectorWeakClassifier } from './detect/detector-cascade.js';
+export {
+  scanImage,
+  scanScales,
+  resolveScanOptions,
+  DEFAULT_SCAN_OPTIONS,
+  type ScanOptions,
+  type ScanResult,
+  type ScanStatistics,
+  type RawHits,
+} from './detect/scan-image.js';
+export { mergeDetections, MERGE_METHODS, DEFAULT_MERGE_OPTIONS, type Detection, type MergeMethod, type MergeOptions } from './detect/merge-detections.js';
+export { intersectionOverUnion, type Box } from './metrics/intersection-over-union.js';
+export { matchDetections, type ImageDetectionsAndTruth, type MatchedDetection, type MatchResult } from './metrics/match-detections.js';
+export { precisionRecallCurve, averagePrecision, detectionRateAtFalsePositives, type PrecisionRecallCurve } from './metrics/precision-recall.js';
+export { missRateCurve, logAverageMissRate, LOG_AVERAGE_REFERENCE_POINTS, type MissRateCurve } from './metrics/miss-rate.js';
+export { rocCurve, type RocCurve } from './metrics/roc-curve.js';
+export {
+  exportRuntimeCascade,
+  runtimeFileFromDetector,
+  parseRuntimeCascade,
+  runtimeCascadeFromValue,
+  RUNTIME_CASCADE_FORMAT,
+  RUNTIME_CASCADE_VERSION,
+  RUNTIME_LIMITS,
+  type RuntimeCascadeFile,
+} from './cascade/runtime-export.js';
+export { cascadeDepthScores, evaluatePatches, type PatchEvaluation, type StagePassRates } from './metrics/patch-evaluation.js';
+export { evaluateDetections, summarizeScans, type DetectionEvaluation, type ScanSummary } from './metrics/detection-evaluation.js';
+export { retuneCascade, backgroundPassRates, type RetuneOptions, type RetuneResult, type RetunedStage } from './cascade/retune.js';
+export { loadAnnotations, parseAnnotations, type AnnotatedImage } from './data/annotations.js';
+export { drawBoxes, DETECTION_COLOUR, TRUTH_COLOUR, type RgbColour } from './io/draw-boxes.js';
+export { drawFeatureSheet, POSITIVE_CELL_COLOUR, NEGATIVE_CELL_COLOUR } from './io/draw-features.js';
+export { createScanPool, type ScanPool, type TimedScanResult } from './parallel/scan-pool.js';
+export { detectFiles, type DetectFilesOptions, type FileOutcome, type ImageDetections } from './parallel/detect-files.js';

@@ -1,6 +1,11 @@
 import { Command, CommanderError } from 'commander';
 import { registerCheckCommand } from './commands/check.js';
 import { registerTrainCommand } from './commands/train.js';
+import { registerDetectCommand } from './commands/detect.js';
+import { registerEvaluateCommand } from './commands/evaluate.js';
+import { registerExportCommand } from './commands/export.js';
+import { registerInspectCommand } from './commands/inspect.js';
+import { registerTuneCommand } from './commands/tune.js';
 import { EXIT_USAGE, exitCodeFor, formatError } from './messages.js';
 
 /** Commands of DESIGN §2 that later work will fill in; until then they say so. */
@@ -25,6 +30,11 @@ export function buildProgram(): Command {
     .exitOverride();
   registerCheckCommand(program);
   registerTrainCommand(program);
+  registerDetectCommand(program);
+  registerEvaluateCommand(program);
+  registerTuneCommand(program);
+  registerExportCommand(program);
+  registerInspectCommand(program);
   const registered = new Set(program.commands.map((command) => command.name()));
   for (const planned of PLANNED_COMMANDS) {
     if (registered.has(planned.name)) continue;

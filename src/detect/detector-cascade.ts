@@ -1,0 +1,54 @@
+import { featureCells, type WeightedRectangle } from '../features/haar-feature.js';
+import type { CascadeModel } from '../cascade/cascade-model.js';
+
+/**
+ * The part of a cascade that detection needs, with every feature spelled out as
+ * weighted rectangles in base-window coordinates (half-open {x, y, width, height},
+ * per-pixel weight). Both the full model (CascadeModel) and the runtime-only
+ * export reduce to this form, so they scan identically by construction.
+ *
+ * Semantics (same as CascadeModel): a weak classifier's normalized value is
+ * Σ weight · (pixel sum of rectangle) / σ(window); it adds `belowOutput` when that
+ * value < splitValue, else `aboveOutput`; a window passes a stage when the sum of
+ * its weak outputs ≥ threshold.
+ */
+export interface DetectorWeakClassifier {
+  readonly rectangles: readonly WeightedRectangle[];
+  readonly splitValue: number;
+  readonly belowOutput: number;
+  readonly aboveOutput: number;
+}
+
+/** One stage of a DetectorCascade. */
+export interface DetectorStage {
+  readonly threshold: number;
+  readonly weakClassifiers: readonly DetectorWeakClassifier[];
+}
+
+/** A cascade ready to scan: window size in pixels and stages in evaluation order. */
+export interface DetectorCascade {
+  readonly windowWidth: number;
+  readonly windowHeight: number;
+  readonly stages: readonly DetectorStage[];
+}
+
+/**
+ * Spells out a model's features as weighted rectangles (featureCells).
+ * Drops training provenance; the model is not modified.
+ * @example detectorCascadeFromModel(model).stages[0]!.weakClassifiers[0]!.rectangles
+ */
+export function detectorCascadeFromModel(model: Pick<CascadeModel, 'window' | 'stages'>): DetectorCascade {
+  return {
+    windowWidth: model.window.width,
+    windowHeight: model.window.height,
+    stages: model.stages.map((stage) => ({
+      threshold: stage.threshold,
+      weakClassifiers: stage.weakClassifiers.map((weak) => ({
+        rectangles: featureCells(weak.feature),
+        splitValue: weak.splitValue,
+        belowOutput: weak.belowOutput,
+        aboveOutput: weak.aboveOutput,
+      })),
+    })),
+  };
+}

@@ -1,0 +1,72 @@
+import seedrandom from 'seedrandom';
+import { describe, expect, it } from 'vitest';
+import { intersectionOverUnion, type Box } from '../../src/metrics/intersection-over-union.js';
+import { mergeDetections } from '../../src/detect/merge-detections.js';
+import type { RawHits } from '../../src/detect/scan-image.js';
+
+function hitsOf(list: Array<[number, number, number, number, number]>): RawHits {
+  return {
+    count: list.length,
+    x: Float64Array.from(list.map((h) => h[0])),
+    y: Float64Array.from(list.map((h) => h[1])),
+    width: Float64Array.from(list.map((h) => h[2])),
+    height: Float64Array.from(list.map((h) => h[3])),
+    score: Float64Array.from(list.map((h) => h[4])),
+  };
+}
+
+// Three hits around one object (pairwise IoU ≥ 81/119 ≈ 0.68 > 0.3) and one far away.
+const hits = hitsOf([
+  [0, 0, 10, 10, 1],
+  [1, 1, 10, 10, 3],
+  [2, 0, 10, 10, 2],
+  [50, 50, 10, 10, 0.5],
+]);
+
+describe('merging raw hits', () => {
+  it('nms keeps the best hit of each overlapping cluster and counts the suppressed ones as support', () => {
+    expect(mergeDetections(hits, { method: 'nms', overlap: 0.3 })).toEqual([
+      { box: [1, 1, 10, 10], score: 3, support: 3 },
+      { box: [50, 50, 10, 10], score: 0.5, support: 1 },
+    ]);
+  });
+
+  it('mean averages each group of overlapping hits: x = (0+1+2)/3, y = (0+1+0)/3', () => {
+    const merged = mergeDetections(hits, { method: 'mean', overlap: 0.3, minSupport: 2 });
+    expect(merged).toEqual([{ box: [1, 1 / 3, 10, 10], score: 3, support: 3 }]);
+  });
+
+  it('none returns every hit by score with support 1', () => {
+    expect(mergeDetections(hits, { method: 'none' }).map((d) => d.score)).toEqual([3, 2, 1, 0.5]);
+  });
+
+  it('an overlap of 1 never suppresses (IoU > 1 is impossible)', () => {
+    expect(mergeDetections(hits, { method: 'nms', overlap: 1 })).toHaveLength(4);
+  });
+
+  it('nms equals the textbook quadratic greedy loop on 400 random hits (brute-force twin)', () => {
+    const random = seedrandom('nms-twin');
+    const list = Array.from({ length: 400 }, () => {
+      const side = 10 + Math.floor(random() * 20);
+      return [Math.floor(random() * 150), Math.floor(random() * 150), side, side, Math.round(random() * 50) / 10] as [number, number, number, number, number];
+    });
+    const raw = hitsOf(list);
+    const order = list.map((_, i) => i).sort((a, b) => list[b]![4] - list[a]![4] || list[a]![0] - list[b]![0] || list[a]![1] - list[b]![1] || list[a]![2] - list[b]![2]);
+    const suppressed = new Set<number>();
+    const expected: Array<{ box: Box; score: number; support: number }> = [];
+    order.forEach((i, a) => {
+      if (suppressed.has(i)) return;
+      let support = 1;
+      for (const j of order.slice(a + 1)) {
+        const boxI = list[i]!.slice(0, 4) as unknown as Box;
+        const boxJ = list[j]!.slice(0, 4) as unknown as Box;
+        if (!suppressed.has(j) && intersectionOverUnion(boxI, boxJ) > 0.3) {
+          suppressed.add(j);
+          support++;
+        }
+      }
+      expected.push({ box: list[i]!.slice(0, 4) as unknown as Box, score: list[i]![4], support });
+    });
+    expect(mergeDetections(raw, { method: 'nms', overlap: 0.3 })).toEqual(expected);
+  });
+});
