@@ -1,5 +1,6 @@
 import { Command, CommanderError } from 'commander';
 import { registerCheckCommand } from './commands/check.js';
+import { registerDemoCommand } from './commands/demo.js';
 import { registerTrainCommand } from './commands/train.js';
 import { registerDetectCommand } from './commands/detect.js';
 import { registerEvaluateCommand } from './commands/evaluate.js';
@@ -35,6 +36,7 @@ export function buildProgram(): Command {
   registerTuneCommand(program);
   registerExportCommand(program);
   registerInspectCommand(program);
+  registerDemoCommand(program);
   const registered = new Set(program.commands.map((command) => command.name()));
   for (const planned of PLANNED_COMMANDS) {
     if (registered.has(planned.name)) continue;
