@@ -39,3 +39,38 @@ export { readNpy, readNpyFile, type NpyArray } from './data/npy-reader.js';
 export { readIdx, readIdxFile, type IdxArray } from './data/idx-reader.js';
 export { loadLfwSubset, LFW_SUBSET_ITEMS_PER_CLASS, LFW_SUBSET_SIDE, type LfwSubset } from './data/lfw-subset.js';
 export { loadFashionMnist, FASHION_MNIST_SIDE, type FashionMnistSplit } from './data/fashion-mnist.js';
+
+// --- Boosting engine (issue 3): response matrix, weak-learner search, AdaBoost, stage training, worker pool
+export { BOOSTER_KINDS, PERFECT_ERROR, discreteAlpha, initialWeights, updateWeights, type BoosterKind } from './boost/booster.js';
+export { BIN_COUNT, binEdge, quantizeResponses } from './boost/response-bins.js';
+export { packSampleColumns, type SampleColumns } from './boost/sample-columns.js';
+export {
+  buildResponseMatrix,
+  fillResponseRows,
+  responseMatrixFromValues,
+  splitValueOf,
+  type ResponseMatrix,
+  type ResponseRowsTarget,
+} from './boost/response-matrix.js';
+export { betterSplit, createSplitScratch, searchBestSplit, type SplitCandidate } from './boost/best-split.js';
+export {
+  CHANCE_MARGIN,
+  boostRounds,
+  decideRound,
+  stumpOutputs,
+  type BoostRoundsOptions,
+  type BoostedRound,
+  type ChosenStump,
+  type RoundOutcome,
+} from './boost/adaboost.js';
+export { passRate, thresholdForDetectionRate } from './boost/stage-threshold.js';
+export {
+  DEFAULT_MATRIX_MEMORY_BYTES,
+  trainStage,
+  type StageRoundReport,
+  type StageTrainingOptions,
+  type StageTrainingResult,
+} from './boost/train-stage.js';
+export { createBoostingPool, defaultWorkerCount, type BoostingPool } from './parallel/boosting-pool.js';
+export type { MatrixBuildJob, SplitSearchJob } from './parallel/boosting-jobs.js';
+export { readNpyFloat64, type NpyFloat64Array } from './data/npy-reader.js';

@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { isRectboostError } from '../../src/errors.js';
 import { loadLfwSubset } from '../../src/data/lfw-subset.js';
-import { readNpy, readNpyFile } from '../../src/data/npy-reader.js';
+import { readNpy, readNpyFile, readNpyFloat64 } from '../../src/data/npy-reader.js';
 import { REFERENCE_DATA, shouldRunWith } from './reference-files.js';
 
 // Values made by scripts/make-dataset-fixture.py with numpy.load (version recorded in the file).
@@ -164,5 +164,38 @@ describe.skipIf(!shouldRunWith('lfw_subset.npy'))(`lfw_subset.npy against numpy 
     for (const [item, sum] of Object.entries(fixture.lfwSubset.byteSumOfItem)) {
       expect(byteSum([all[Number(item)]!])).toBe(sum);
     }
+  });
+});
+
+/** A version-1.0 .npy file built by hand from NumPy's format description (numpy/lib/format.py). */
+function float64NpyBytes(header: string, values: number[]): Uint8Array {
+  const prefix = 10;
+  let text = header;
+  while ((prefix + text.length + 1) % 64 !== 0) text += ' '; // NumPy pads the header to 64 bytes
+  text += '\n';
+  const bytes = new Uint8Array(prefix + text.length + 8 * values.length);
+  bytes.set([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, 1, 0]);
+  new DataView(bytes.buffer).setUint16(8, text.length, true);
+  for (let i = 0; i < text.length; i++) bytes[prefix + i] = text.charCodeAt(i);
+  const view = new DataView(bytes.buffer);
+  values.forEach((value, i) => view.setFloat64(prefix + text.length + 8 * i, value, true));
+  return bytes;
+}
+
+describe('.npy float64 reader (boosting engine)', () => {
+  it('reads shape and little-endian float64 values in C order', () => {
+    const bytes = float64NpyBytes("{'descr': '<f8', 'fortran_order': False, 'shape': (2, 3), }", [0, 0.5, 1, -2, 3.25, 1e-3]);
+    const array = readNpyFloat64(bytes, 'hand.npy');
+    expect(array.shape).toEqual([2, 3]);
+    expect(Array.from(array.data)).toEqual([0, 0.5, 1, -2, 3.25, 1e-3]);
+  });
+
+  it('refuses other dtypes with a message naming the file', () => {
+    const bytes = float64NpyBytes("{'descr': '<i4', 'fortran_order': False, 'shape': (1,), }", [0]);
+    expect(() => readNpyFloat64(bytes, 'ints.npy')).toThrow(/ints\.npy.*dtype is <i4/);
+  });
+
+  it('refuses bytes that are not a .npy file', () => {
+    expect(() => readNpyFloat64(new TextEncoder().encode('hello world, no magic'), 'text.npy')).toThrow(/magic/);
   });
 });

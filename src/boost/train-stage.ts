@@ -1,0 +1,244 @@
+import { checkInteger, checkNumber, checkOneOf, checkOpenInterval, checkThat } from '../check.js';
+import type { Stage, StageTrainingRecord, WeakClassifier } from '../cascade/cascade-model.js';
+import { compileFeatures, evaluateCompiledFeature } from '../features/compiled-features.js';
+import type { HaarFeature } from '../features/haar-feature.js';
+import type { WindowSamples } from '../features/window-samples.js';
+import type { BoostingPool } from '../parallel/boosting-pool.js';
+import { decideRound, stumpOutputs } from './adaboost.js';
+import { BOOSTER_KINDS, initialWeights, updateWeights, type BoosterKind } from './booster.js';
+import { createSplitScratch, searchBestSplit, type SplitCandidate } from './best-split.js';
+import { fillResponseRows, splitValueOf, type ResponseMatrix } from './response-matrix.js';
+import { packSampleColumns } from './sample-columns.js';
+import { passRate, thresholdForDetectionRate } from './stage-threshold.js';
+
+/** Default cap on the response matrix: 4 GiB, also the largest single buffer Node 20 allows. */
+export const DEFAULT_MATRIX_MEMORY_BYTES = 2 ** 32;
+
+/** What trainStage reports after each weak classifier it adds. */
+export interface StageRoundReport {
+  /** Weak classifiers in the stage so far, ≥ 1. */
+  readonly weakClassifiers: number;
+  /** Stage threshold set for minDetectionRate on the validation positives. */
+  readonly threshold: number;
+  /** Share of validation positives at or above the threshold. */
+  readonly detectionRate: number;
+  /** Share of training negatives at or above the threshold. */
+  readonly falsePositiveRate: number;
+  /** Time since the round's split search began. */
+  readonly milliseconds: number;
+}
+
+/** Inputs of trainStage (ranges are checked once, up front). */
+export interface StageTrainingOptions {
+  /** Candidate features, e.g. enumerateFeatures(24, 24); at least one. */
+  readonly features: readonly HaarFeature[];
+  /** Training positives; at least one. */
+  readonly positives: WindowSamples;
+  /** Training negatives; at least one. */
+  readonly negatives: WindowSamples;
+  /** Held-out positives that set the stage threshold (may be `positives` again). */
+  readonly validationPositives: WindowSamples;
+  readonly booster: BoosterKind;
+  /** In (0, 1], e.g. 0.995. */
+  readonly minDetectionRate: number;
+  /** In (0, 1), e.g. 0.5. */
+  readonly maxFalsePositiveRate: number;
+  /** 1..10000, e.g. 200. */
+  readonly maxWeakClassifiers: number;
+  /** Worker pool; when absent, everything runs in this thread. */
+  readonly pool?: BoostingPool;
+  /** Cap for the response matrix in bytes; default and maximum DEFAULT_MATRIX_MEMORY_BYTES. */
+  readonly memoryBytes?: number;
+  /** Seeded generator in [0, 1); used only to sample features when the matrix would not fit. */
+  readonly random: () => number;
+  /** Called after each weak classifier is added. */
+  readonly onRound?: (round: StageRoundReport) => void;
+  /** Initial weights: `balanced` (default, Viola & Jones 2001 Table 1) or `uniform`. */
+  readonly initialWeights?: 'balanced' | 'uniform';
+}
+
+/** What trainStage produced and measured. */
+export interface StageTrainingResult {
+  /** Threshold and weak classifiers; `training` is left for the cascade builder. */
+  readonly stage: Stage;
+  /** On validationPositives, at the threshold. */
+  readonly detectionRate: number;
+  /** On negatives, at the threshold. */
+  readonly falsePositiveRate: number;
+  readonly stoppedBecause: StageTrainingRecord['stoppedBecause'];
+  /** Features in the response matrix: features.length unless the memory cap forced a sample. */
+  readonly featuresUsed: number;
+  readonly matrixSeconds: number;
+  readonly boostingSeconds: number;
+}
+
+/**
+ * Trains one cascade stage (Viola & Jones 2001 §4, Table 2's inner loop):
+ * boost weak classifiers (one thresholded Haar-like feature each) until, with the
+ * stage threshold lowered to keep minDetectionRate on the validation positives,
+ * at most maxFalsePositiveRate of the negatives pass — or maxWeakClassifiers is hit,
+ * or boosting cannot go on (a perfect or no-better-than-chance round).
+ *
+ * Steps: the response matrix of every feature on positives then negatives is built
+ * once (DESIGN.md §4); each round finds the best split over it (in the pool's workers
+ * when a pool is given), turns it into outputs (booster.ts, adaboost.ts), adds the
+ * outputs to running stage scores — no rescoring — and re-weights.
+ *
+ * Memory fallback: when features × samples bytes exceed memoryBytes, the stage uses
+ * ⌊memoryBytes / samples⌋ features drawn with `random` (a partial Fisher–Yates shuffle,
+ * then sorted back into enumeration order), and says so in `featuresUsed`.
+ *
+ * Determinism: same inputs and random ⇒ the same stage for any pool size.
+ * This is the one asynchronous function of the boosting core, because the pool's
+ * workers answer asynchronously; it does no I/O of its own.
+ * @throws RectboostError `invalid-option` for options out of range, windows that differ,
+ *   or a memory cap too small for even one feature.
+ * @example
+ * const { stage } = await trainStage({ features: enumerateFeatures(24, 24), positives, negatives,
+ *   validationPositives: positives, booster: 'gentle', minDetectionRate: 0.995,
+ *   maxFalsePositiveRate: 0.5, maxWeakClassifiers: 200, random: seedrandom('1') });
+ */
+export async function trainStage(options: StageTrainingOptions): Promise<StageTrainingResult> {
+  const { features, positives, negatives, validationPositives, pool } = options;
+  const booster = checkOneOf('booster', options.booster, BOOSTER_KINDS);
+  const minDetectionRate = checkNumber('minimum stage detection rate', options.minDetectionRate, Number.MIN_VALUE, 1);
+  const maxFalsePositiveRate = checkOpenInterval('maximum stage false-positive rate', options.maxFalsePositiveRate, 0, 1);
+  const maxWeakClassifiers = checkInteger('maximum weak classifiers per stage', options.maxWeakClassifiers, 1, 10_000);
+  const memoryBytes = Math.min(
+    checkNumber('response matrix memory cap (bytes)', options.memoryBytes ?? DEFAULT_MATRIX_MEMORY_BYTES, 1, Number.MAX_SAFE_INTEGER),
+    DEFAULT_MATRIX_MEMORY_BYTES,
+  );
+  checkThat(features.length >= 1, 'A stage needs at least one candidate feature; received none.');
+  checkThat(positives.count >= 1 && negatives.count >= 1 && validationPositives.count >= 1,
+    `A stage needs positives, negatives and validation positives; received ${positives.count}, ${negatives.count} and ${validationPositives.count}.`);
+  for (const [name, set] of [['negatives', negatives], ['validation positives', validationPositives]] as const) {
+    checkThat(set.windowWidth === positives.windowWidth && set.windowHeight === positives.windowHeight,
+      `The ${name} are ${set.windowWidth}×${set.windowHeight} windows but the positives are ${positives.windowWidth}×${positives.windowHeight}; all sets must use one window.`);
+  }
+
+  const sampleCount = positives.count + negatives.count;
+  const positiveCount = positives.count;
+  const chosen = chooseFeatures(features.length, sampleCount, memoryBytes, options.random);
+  const featureCount = chosen.length;
+  const stageFeatures = chosen.map((index) => features[index]!);
+
+  // --- Response matrix -------------------------------------------------------
+  const matrixStart = performance.now();
+  const createBuffer = pool === undefined ? (bytes: number) => new ArrayBuffer(bytes) : (bytes: number) => new SharedArrayBuffer(bytes);
+  const samples = packSampleColumns(positives, negatives, createBuffer);
+  const compiled = compileFeatures(stageFeatures, positives.windowWidth + 1);
+  const matrix: ResponseMatrix = {
+    featureCount,
+    sampleCount,
+    positiveCount,
+    bins: new Uint8Array(createBuffer(featureCount * sampleCount)),
+    minimums: new Float64Array(createBuffer(8 * featureCount)),
+    binWidths: new Float64Array(createBuffer(8 * featureCount)),
+  };
+  if (pool === undefined) {
+    fillResponseRows(samples, compiled, 0, featureCount, matrix);
+  } else {
+    await pool.buildMatrix({
+      ...samples,
+      starts: copyInto(compiled.starts, createBuffer),
+      offsets: copyInto(compiled.offsets, createBuffer),
+      coefficients: copyInto(compiled.coefficients, createBuffer),
+      bins: matrix.bins,
+      minimums: matrix.minimums,
+      binWidths: matrix.binWidths,
+    }, featureCount);
+  }
+  const matrixSeconds = (performance.now() - matrixStart) / 1000;
+
+  // --- Boosting --------------------------------------------------------------
+  const boostingStart = performance.now();
+  const weights = new Float64Array(createBuffer(8 * sampleCount));
+  weights.set(initialWeights(positiveCount, negatives.count, options.initialWeights ?? 'balanced'));
+  const scratch = createSplitScratch();
+  const search = async (): Promise<SplitCandidate | null> =>
+    pool === undefined
+      ? searchBestSplit(matrix.bins, sampleCount, positiveCount, weights, booster, 0, featureCount, scratch)
+      : pool.searchSplit({ bins: matrix.bins, featureCount, sampleCount, positiveCount, weights, booster });
+
+  const weakClassifiers: WeakClassifier[] = [];
+  const negativeScores = new Float64Array(negatives.count);
+  const validationScores = new Float64Array(validationPositives.count);
+  const validationStride = validationPositives.windowWidth + 1;
+  let threshold = 0;
+  let detectionRate = 1;
+  let falsePositiveRate = 1;
+  let stoppedBecause: StageTrainingRecord['stoppedBecause'] = 'max-weak-classifiers';
+
+  while (weakClassifiers.length < maxWeakClassifiers) {
+    const roundStart = performance.now();
+    const outcome = decideRound(await search(), booster);
+    if (outcome.kind === 'stop' && outcome.reason === 'no-better-than-chance') {
+      stoppedBecause = outcome.reason;
+      break;
+    }
+    const { stump } = outcome;
+    const weak: WeakClassifier = {
+      feature: stageFeatures[stump.feature]!,
+      splitValue: splitValueOf(matrix, stump.feature, stump.bin),
+      belowOutput: stump.belowOutput,
+      aboveOutput: stump.aboveOutput,
+    };
+    weakClassifiers.push(weak);
+
+    // Running stage scores: the matrix bins decide "below" exactly as value < splitValue
+    // does (response-bins.ts), and validation windows are scored on their real values.
+    const outputs = stumpOutputs(matrix, stump);
+    for (let i = 0; i < negatives.count; i++) negativeScores[i]! += outputs[positiveCount + i]!;
+    const single = compileFeatures([weak.feature], validationStride);
+    for (let i = 0; i < validationPositives.count; i++) {
+      const value = evaluateCompiledFeature(single, 0, validationPositives.tables, i * validationPositives.tableSize) * validationPositives.inverseStandardDeviations[i]!;
+      validationScores[i]! += value < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
+    }
+    threshold = thresholdForDetectionRate(validationScores, minDetectionRate);
+    detectionRate = passRate(validationScores, threshold);
+    falsePositiveRate = passRate(negativeScores, threshold);
+    options.onRound?.({ weakClassifiers: weakClassifiers.length, threshold, detectionRate, falsePositiveRate, milliseconds: performance.now() - roundStart });
+
+    if (falsePositiveRate <= maxFalsePositiveRate) {
+      stoppedBecause = 'targets-met';
+      break;
+    }
+    if (outcome.kind === 'stop') {
+      stoppedBecause = outcome.reason;
+      break;
+    }
+    weights.set(updateWeights(weights, outputs, positiveCount));
+  }
+
+  return {
+    stage: { threshold, weakClassifiers },
+    detectionRate,
+    falsePositiveRate,
+    stoppedBecause,
+    featuresUsed: featureCount,
+    matrixSeconds,
+    boostingSeconds: (performance.now() - boostingStart) / 1000,
+  };
+}
+
+/** All feature indices, or a seeded sample of them that fits the memory cap, ascending. */
+function chooseFeatures(featureCount: number, sampleCount: number, memoryBytes: number, random: () => number): number[] {
+  const all = Array.from({ length: featureCount }, (_, index) => index);
+  if (featureCount * sampleCount <= memoryBytes) return all;
+  const fitting = Math.floor(memoryBytes / sampleCount);
+  checkThat(fitting >= 1,
+    `A response matrix for ${sampleCount} samples needs at least ${sampleCount} bytes per feature; the memory cap of ${memoryBytes} bytes holds none. Raise the memory cap or use fewer samples.`);
+  for (let i = 0; i < fitting; i++) {
+    const j = i + Math.floor(random() * (featureCount - i));
+    const swap = all[i]!;
+    all[i] = all[j]!;
+    all[j] = swap;
+  }
+  return all.slice(0, fitting).sort((a, b) => a - b);
+}
+
+function copyInto<T extends Int32Array | Float64Array>(source: T, createBuffer: (bytes: number) => ArrayBufferLike): T {
+  const copy = new (source.constructor as new (buffer: ArrayBufferLike) => T)(createBuffer(source.byteLength));
+  copy.set(source);
+  return copy;
+}
