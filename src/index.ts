@@ -74,3 +74,6 @@ export {
 export { createBoostingPool, defaultWorkerCount, type BoostingPool } from './parallel/boosting-pool.js';
 export type { MatrixBuildJob, SplitSearchJob } from './parallel/boosting-jobs.js';
 export { readNpyFloat64, type NpyFloat64Array } from './data/npy-reader.js';
+
+// --- Peer benchmark support (issue 7): .npy writing for exchanging arrays with NumPy-based libraries
+export { encodeNpy, encodeNpyHeader, writeNpyFile, type NpyData, type NpyElementType } from './data/npy-writer.js';
