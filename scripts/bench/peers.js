@@ -14,7 +14,7 @@ import { renderTable } from '../../dist/cli/text-table.js';
 import { compareAccuracy } from '../peers/compare-accuracy.js';
 import { compareBoostingRound } from '../peers/compare-boosting-round.js';
 import { compareFeatures } from '../peers/compare-features.js';
-import { describeMachine } from '../peers/machine.js';
+import { describeMachine, loadAverage } from '../peers/machine.js';
 import { PYTHON, findPythonPeer } from '../peers/python-peer.js';
 
 export const title = 'Side by side with scikit-image and scikit-learn (same machine, same run, same data)';
@@ -41,6 +41,7 @@ export async function run(flags) {
   if (!(patchCount >= 2 && patchCount <= 200 && patchCount % 2 === 0)) throw new Error(`--peer-patches must be an even number from 2 to 200; received ${patchCount}.`);
 
   const machine = describeMachine();
+  const loadBefore = loadAverage();
   const peers = await findPythonPeer();
   for (const [name, reason] of [['scikit-image', peers.skimage], ['scikit-learn', peers.sklearn]]) {
     if (reason !== null) console.log(`skipping ${name}: ${reason}`);
@@ -63,10 +64,12 @@ export async function run(flags) {
     rmSync(scratchFolder, { recursive: true, force: true });
   }
 
+  const loadAfter = loadAverage();
   const v = peers.versions;
   console.log(`machine: ${machine.cpuModel}${machine.megahertz ? ` (${machine.megahertz.toFixed(0)} MHz)` : ''}, ${machine.logicalCores} logical cores, ${machine.memoryGiB.toFixed(1)} GiB, ${machine.platform}`);
   console.log(`software: Node ${machine.node}` + (v ? `; ${PYTHON}: Python ${v.python}, numpy ${v.numpy}, scikit-image ${v['scikit-image'] ?? 'absent'}, scikit-learn ${v['scikit-learn'] ?? 'absent'}` +
     (v.threadpools.length > 0 ? `; BLAS/OpenMP pools: ${v.threadpools.map((p) => `${p.api} ${p.threads} threads`).join(', ')}` : '') : ''));
+  console.log(`load: 1-minute load average ${loadBefore.toFixed(2)} before, ${loadAfter.toFixed(2)} after, on ${machine.logicalCores} cores${Math.max(loadBefore, loadAfter) > machine.logicalCores * 0.75 ? ' — other work was competing for the cores; figures are pessimistic for both sides' : ''}`);
   console.log(`threads: rectboost ${workers} worker thread(s); scikit-image haar_like_feature and scikit-learn tree fitting are single-threaded (the pool row uses ${peerProcesses} processes)`);
 
   const rows = [];

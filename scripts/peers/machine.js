@@ -24,3 +24,12 @@ export function describeMachine() {
     platform: `${os.type()} ${os.release()} ${os.arch()}`,
   };
 }
+
+/**
+ * The 1-minute load average (os.loadavg; 0 where the OS does not report it). Speed
+ * figures taken while other work keeps the cores busy are slower, so the benchmark
+ * prints this before and after its run.
+ */
+export function loadAverage() {
+  return os.loadavg()[0];
+}
