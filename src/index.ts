@@ -39,6 +39,7 @@ export { readNpy, readNpyFile, type NpyArray } from './data/npy-reader.js';
 export { readIdx, readIdxFile, type IdxArray } from './data/idx-reader.js';
 export { loadLfwSubset, LFW_SUBSET_ITEMS_PER_CLASS, LFW_SUBSET_SIDE, type LfwSubset } from './data/lfw-subset.js';
 export { loadFashionMnist, FASHION_MNIST_SIDE, type FashionMnistSplit } from './data/fashion-mnist.js';
+
 // --- Boosting engine (issue 3): response matrix, weak-learner search, AdaBoost, stage training, worker pool
 export { BOOSTER_KINDS, PERFECT_ERROR, discreteAlpha, initialWeights, updateWeights, type BoosterKind } from './boost/booster.js';
 export { BIN_COUNT, binEdge, quantizeResponses } from './boost/response-bins.js';
@@ -108,3 +109,6 @@ export { drawBoxes, DETECTION_COLOUR, TRUTH_COLOUR, type RgbColour } from './io/
 export { drawFeatureSheet, POSITIVE_CELL_COLOUR, NEGATIVE_CELL_COLOUR } from './io/draw-features.js';
 export { createScanPool, type ScanPool, type TimedScanResult } from './parallel/scan-pool.js';
 export { detectFiles, type DetectFilesOptions, type FileOutcome, type ImageDetections } from './parallel/detect-files.js';
+
+// --- Peer benchmark support (issue 7): .npy writing for exchanging arrays with NumPy-based libraries
+export { encodeNpy, encodeNpyHeader, writeNpyFile, type NpyData, type NpyElementType } from './data/npy-writer.js';
