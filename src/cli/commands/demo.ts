@@ -153,7 +153,7 @@ async function runDemo(flags: DemoFlags): Promise<void> {
   const entries: Array<{ detections: Array<{ box: Box; score: number }>; truth: readonly Box[] }> = [];
   const perScene: Array<[string, number, number, number]> = [];
   let index = 0;
-  for await (const outcome of detectFiles(detector, truth.map((t) => t.image), { workers, merge: { method: 'mean', overlap: 0.3, minSupport: 3 } })) {
+  for await (const outcome of detectFiles(detector, truth.map((t) => t.image), { workers, merge: { method: 'mean', overlap: 0.5, minSupport: 3 } })) {
     if (outcome.kind === 'failed') throw outcome.error;
     const sceneTruth = truth[index]!.boxes;
     index++;
