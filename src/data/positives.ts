@@ -1,6 +1,10 @@
 import { stat } from 'node:fs/promises';
 import { RectboostError } from '../errors.js';
-import { mirrorGrayImage, resizeGrayImage, type GrayImage } from '../image/gray-image.js';
+import { readFile } from 'node:fs/promises';
+import { createHash } from 'node:crypto';
+import { dirname } from 'node:path';
+import { cropGrayImage, mirrorGrayImage, resizeGrayImage, type GrayImage } from '../image/gray-image.js';
+import { loadAnnotations } from './annotations.js';
 import { listImageFiles } from './list-images.js';
 import { readImagesChecked, refuseBadImages, type CheckedImages } from './read-images.js';
 
@@ -25,6 +29,41 @@ export interface LoadedPositives {
 }
 
 /**
+ * Positive windows from an annotation file (DESIGN §3: JSON Lines or COCO-style):
+ * every box is cropped from its image (rounded to whole pixels, clipped to the
+ * image) and resized to the window. The content hash covers the annotation file
+ * and every image it names.
+ */
+async function loadAnnotatedPositives(path: string, options: PositiveLoadOptions): Promise<LoadedPositives> {
+  const annotated = await loadAnnotations(path);
+  const files = annotated.map((entry) => entry.image);
+  const checked = await readImagesChecked(files, {
+    root: dirname(path),
+    ...(options.maxPixels === undefined ? {} : { maxPixels: options.maxPixels }),
+    ...(options.onProgress === undefined ? {} : { onProgress: options.onProgress }),
+  });
+  const skipped = refuseBadImages('annotated images', checked, options.skipBad);
+  const byFile = new Map(checked.files.map((file, i) => [file, checked.images[i]!]));
+  const windows: GrayImage[] = [];
+  for (const entry of annotated) {
+    const image = byFile.get(entry.image);
+    if (image === undefined) continue;
+    for (const [x, y, width, height] of entry.boxes) {
+      const left = Math.max(0, Math.round(x));
+      const top = Math.max(0, Math.round(y));
+      const right = Math.min(image.width, Math.round(x + width));
+      const bottom = Math.min(image.height, Math.round(y + height));
+      if (right - left < 1 || bottom - top < 1) continue;
+      windows.push(resizeGrayImage(cropGrayImage(image, left, top, right - left, bottom - top), options.windowWidth, options.windowHeight));
+    }
+  }
+  if (windows.length === 0) throw new RectboostError('bad-data', `Annotation file ${path} has no boxes inside its images.`);
+  const hash = createHash('sha256').update(await readFile(path)).update(checked.contentHash).digest('hex');
+  const all = options.mirror ? [...windows, ...windows.map(mirrorGrayImage)] : windows;
+  return { windows: all, sourceCount: windows.length, contentHash: hash, skipped };
+}
+
+/**
  * Positive windows from a folder of patch images: every image converted to
  * gray and resized to the detector window (bilinear), optionally mirrored.
  * @throws RectboostError `bad-data` for a missing folder or a folder without
@@ -38,7 +77,8 @@ export async function loadPositiveWindows(path: string, options: PositiveLoadOpt
     throw new RectboostError('bad-data', `Positives ${path} do not exist or cannot be read.`, { cause: error });
   }
   if (!info.isDirectory()) {
-    throw new RectboostError('bad-data', `Positives ${path} must be a folder of patch images.`);
+    if (/\.jsonl?$/i.test(path)) return loadAnnotatedPositives(path, options);
+    throw new RectboostError('bad-data', `Positives ${path} must be a folder of patch images or an annotation file (.jsonl or COCO-style .json).`);
   }
   const files = await listImageFiles(path);
   if (files.length === 0) throw new RectboostError('bad-data', `Positives folder ${path} holds no PNG, JPEG, TIFF or WebP images.`);

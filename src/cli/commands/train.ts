@@ -47,7 +47,7 @@ export function registerTrainCommand(program: Command): void {
   program
     .command('train')
     .description('train a cascade from a folder of positive patches and a folder of background images')
-    .option('--positives <folder>', 'folder of positive patch images (any size; resized to the window)')
+    .option('--positives <path>', 'folder of positive patch images (any size; resized to the window), or an annotation file of boxes on full images')
     .option('--backgrounds <folder>', 'folder of images that contain no object')
     .option('--out <file>', 'where to write the model JSON')
     .option('--window <WxH>', 'detector window in pixels', '24x24')
@@ -90,7 +90,7 @@ async function runTrain(flags: TrainFlags): Promise<void> {
     if (value === undefined) throw new RectboostError('invalid-option', `train needs ${option}; see rectboost train --help.`);
     return value;
   };
-  const positivesPath = required(flags.positives, '--positives FOLDER');
+  const positivesPath = required(flags.positives, '--positives FOLDER_OR_ANNOTATIONS');
   const backgroundsPath = required(flags.backgrounds, '--backgrounds FOLDER');
   const out = required(flags.out, '--out FILE');
   const window = parseWindowSize('--window', flags.window, 4, MAX_WINDOW_SIDE);
