@@ -69,3 +69,26 @@ export function formatDuration(seconds: number): string {
   if (seconds < 3600) return `${Math.floor(seconds / 60)} min ${Math.round(seconds % 60)} s`;
   return `${Math.floor(seconds / 3600)} h ${Math.round((seconds % 3600) / 60)} min`;
 }
+
+/** A counter-style view of ProgressLine for loops over a known number of items. */
+export interface ItemProgress {
+  /** Counts `count` more items done. */
+  advance(count?: number): void;
+  /** Clears the line. */
+  finish(): void;
+}
+
+/** `label done/total · rate/s · about … left` on stderr; silent when not a terminal or quiet. */
+export function createProgressLine(label: string, total: number, quiet: boolean): ItemProgress {
+  const line = new ProgressLine(quiet);
+  let done = 0;
+  return {
+    advance(count = 1) {
+      done += count;
+      line.update(label, label, done, total, done >= total);
+    },
+    finish() {
+      line.clear();
+    },
+  };
+}

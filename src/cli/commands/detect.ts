@@ -7,7 +7,7 @@ import { DETECTION_COLOUR, drawBoxes } from '../../io/draw-boxes.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
 import { detectFiles, type ImageDetections } from '../../parallel/detect-files.js';
 import { loadCascadeFile } from '../load-cascade-file.js';
-import { createProgressLine } from '../progress-line.js';
+import { createProgressLine } from '../progress.js';
 import { addScanOptions, parseScanOptions, type ScanOptionText } from '../scan-options.js';
 
 /** Version of the detections JSON Lines layout (DESIGN §3). */
