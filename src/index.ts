@@ -42,7 +42,7 @@ export { loadFashionMnist, FASHION_MNIST_SIDE, type FashionMnistSplit } from './
 
 // --- Boosting engine (issue 3): response matrix, weak-learner search, AdaBoost, stage training, worker pool
 export { BOOSTER_KINDS, PERFECT_ERROR, discreteAlpha, initialWeights, updateWeights, type BoosterKind } from './boost/booster.js';
-export { BIN_COUNT, binEdge, quantizeResponses } from './boost/response-bins.js';
+export { BIN_COUNT, binEdge, quantizeBetween, quantizeResponses } from './boost/response-bins.js';
 export { packSampleColumns, type SampleColumns } from './boost/sample-columns.js';
 export {
   buildResponseMatrix,

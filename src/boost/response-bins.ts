@@ -37,13 +37,25 @@ export function quantizeResponses(values: Float64Array, count: number, bins: Uin
     if (value < minimum) minimum = value;
     if (value > maximum) maximum = value;
   }
+  const binWidth = quantizeBetween(values, count, minimum, maximum, bins, offset);
+  return { minimum: count > 0 ? minimum : 0, binWidth };
+}
+
+/**
+ * The second half of quantizeResponses, for callers that tracked the minimum and
+ * maximum of `values[0..count-1]` while computing them (saves a pass): writes the
+ * bins and returns the bin width (0 for a constant feature, all in bin 0).
+ */
+export function quantizeBetween(values: Float64Array, count: number, minimum: number, maximum: number, bins: Uint8Array, offset: number): number {
   const binWidth = (maximum - minimum) / BIN_COUNT;
   if (!(binWidth > 0)) {
     bins.fill(0, offset, offset + count);
-    return { minimum: count > 0 ? minimum : 0, binWidth: 0 };
+    return 0;
   }
   // edges[b] = binEdge(minimum, binWidth, b) for 1..255, with sentinels −∞ and +∞,
-  // so one table lookup per side checks a bin without special cases.
+  // so one table lookup per side checks a bin without special cases. The edges
+  // never decrease (rounding is monotone), so edges[bin] ≤ v < edges[bin + 1]
+  // means exactly bin(v) = bin.
   const edges = EDGES;
   edges[0] = -Infinity;
   for (let b = 1; b < BIN_COUNT; b++) edges[b] = minimum + b * binWidth;
@@ -51,19 +63,20 @@ export function quantizeResponses(values: Float64Array, count: number, bins: Uin
   const inverseWidth = 1 / binWidth;
   for (let s = 0; s < count; s++) {
     const value = values[s]!;
-    // Truncation is the floor for the non-negative argument; after rounding it may
-    // be one bin off, so step once, and in the rare worse case search the edges.
+    // (value − minimum) is ≥ 0 and the product at most 256 plus rounding, so
+    // truncation is the floor and `bin >>> 8` is 1 only for 256, which belongs
+    // in the top bin. Rounding can still put the estimate one bin off near an
+    // edge; the check catches that (rarely, so the branch predicts well) and
+    // the slow path counts the edges the value reaches.
     let bin = ((value - minimum) * inverseWidth) | 0;
-    if (bin > 255) bin = 255;
-    else if (bin < 0) bin = 0;
-    bin = bin + (value >= edges[bin + 1]! ? 1 : 0) - (value < edges[bin]! ? 1 : 0);
+    bin -= bin >>> 8;
     if (value < edges[bin]! || value >= edges[bin + 1]!) {
       bin = 0;
       while (value >= edges[bin + 1]!) bin++;
     }
     bins[offset + s] = bin;
   }
-  return { minimum, binWidth };
+  return binWidth;
 }
 
 /** Lower edge of bin `bin` (1..255): the split value that sends bins < `bin` below. */

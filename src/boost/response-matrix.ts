@@ -2,7 +2,7 @@ import { checkThat } from '../check.js';
 import { compileFeatures, type CompiledFeatures } from '../features/compiled-features.js';
 import type { HaarFeature } from '../features/haar-feature.js';
 import type { WindowSamples } from '../features/window-samples.js';
-import { binEdge, quantizeResponses } from './response-bins.js';
+import { binEdge, quantizeBetween, quantizeResponses } from './response-bins.js';
 import { packSampleColumns, type SampleColumns } from './sample-columns.js';
 
 /**
@@ -82,6 +82,10 @@ export function fillResponseRows(
   for (let f = featureStart; f < featureEnd; f++) {
     const start = starts[f]!;
     const corners = starts[f + 1]! - start;
+    // The smallest and largest response are tracked while computing, so the
+    // quantizer needs no extra pass over the row.
+    let minimum = Infinity;
+    let maximum = -Infinity;
     if (corners === 6 || corners === 8 || corners === 9) {
       const o0 = offsets[start]! * n, o1 = offsets[start + 1]! * n, o2 = offsets[start + 2]! * n;
       const o3 = offsets[start + 3]! * n, o4 = offsets[start + 4]! * n, o5 = offsets[start + 5]! * n;
@@ -89,22 +93,31 @@ export function fillResponseRows(
       const c3 = coefficients[start + 3]!, c4 = coefficients[start + 4]!, c5 = coefficients[start + 5]!;
       if (corners === 6) {
         for (let s = 0; s < n; s++) {
-          scratch[s] = (c0 * t[o0 + s]! + c1 * t[o1 + s]! + c2 * t[o2 + s]! + c3 * t[o3 + s]! + c4 * t[o4 + s]! + c5 * t[o5 + s]!) * inverse[s]!;
+          const value = (c0 * t[o0 + s]! + c1 * t[o1 + s]! + c2 * t[o2 + s]! + c3 * t[o3 + s]! + c4 * t[o4 + s]! + c5 * t[o5 + s]!) * inverse[s]!;
+          scratch[s] = value;
+          if (value < minimum) minimum = value;
+          if (value > maximum) maximum = value;
         }
       } else {
         const o6 = offsets[start + 6]! * n, o7 = offsets[start + 7]! * n;
         const c6 = coefficients[start + 6]!, c7 = coefficients[start + 7]!;
         if (corners === 8) {
           for (let s = 0; s < n; s++) {
-            scratch[s] = (c0 * t[o0 + s]! + c1 * t[o1 + s]! + c2 * t[o2 + s]! + c3 * t[o3 + s]! +
+            const value = (c0 * t[o0 + s]! + c1 * t[o1 + s]! + c2 * t[o2 + s]! + c3 * t[o3 + s]! +
               c4 * t[o4 + s]! + c5 * t[o5 + s]! + c6 * t[o6 + s]! + c7 * t[o7 + s]!) * inverse[s]!;
+            scratch[s] = value;
+            if (value < minimum) minimum = value;
+            if (value > maximum) maximum = value;
           }
         } else {
           const o8 = offsets[start + 8]! * n;
           const c8 = coefficients[start + 8]!;
           for (let s = 0; s < n; s++) {
-            scratch[s] = (c0 * t[o0 + s]! + c1 * t[o1 + s]! + c2 * t[o2 + s]! + c3 * t[o3 + s]! +
+            const value = (c0 * t[o0 + s]! + c1 * t[o1 + s]! + c2 * t[o2 + s]! + c3 * t[o3 + s]! +
               c4 * t[o4 + s]! + c5 * t[o5 + s]! + c6 * t[o6 + s]! + c7 * t[o7 + s]! + c8 * t[o8 + s]!) * inverse[s]!;
+            scratch[s] = value;
+            if (value < minimum) minimum = value;
+            if (value > maximum) maximum = value;
           }
         }
       }
@@ -112,12 +125,14 @@ export function fillResponseRows(
       for (let s = 0; s < n; s++) {
         let raw = 0;
         for (let k = start; k < start + corners; k++) raw += coefficients[k]! * t[offsets[k]! * n + s]!;
-        scratch[s] = raw * inverse[s]!;
+        const value = raw * inverse[s]!;
+        scratch[s] = value;
+        if (value < minimum) minimum = value;
+        if (value > maximum) maximum = value;
       }
     }
-    const { minimum, binWidth } = quantizeResponses(scratch, n, target.bins, f * n);
-    target.minimums[f] = minimum;
-    target.binWidths[f] = binWidth;
+    target.minimums[f] = n > 0 ? minimum : 0;
+    target.binWidths[f] = quantizeBetween(scratch, n, minimum, maximum, target.bins, f * n);
   }
 }
 
