@@ -23,9 +23,9 @@ import { expectStagePassRatesMatchStagesPassed } from './stage-pass-check.js';
  * Greek coins carry human heads (several in profile, one frontal) — a face there would
  * teach the cascade to reject faces. chelsea.png (a cat's face filling the frame) stays in:
  * the object class is the human face, and a cat's eyes-nose layout is exactly the kind of
- * near miss a face detector must learn to reject (Viola & Jones 2004 mined negatives from
- * face-free images; a cat makes an image face-free in that sense). None of the others shows a
- * person: brick, grass, gravel (textures), moon, page and text (scans), rocket (a launch pad
+ * near miss a face detector must learn to reject; only human faces would be mislabelled
+ * negatives. None of the others shows a person: brick, grass, gravel (textures), moon, page
+ * and text (printed text), rocket (a launch pad
  * at dusk), coffee (a cup on a table), horse (a silhouette), motorcycle_left (a garage).
  */
 const BACKGROUND_PHOTOS = [
