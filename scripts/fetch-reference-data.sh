@@ -8,7 +8,7 @@ set -euo pipefail
 cd "$(dirname "$0")/.."
 target=reference-data
 mkdir -p "$target"
-if [[ -f "$target/lfw_subset.npy" && -f "$target/fashion-mnist/t10k-images-idx3-ubyte.gz" ]]; then
+if [[ -f "$target/lfw_subset.npy" && -f "$target/fashion-mnist/t10k-images-idx3-ubyte.gz" && -f "$target/photos/brick.png" ]]; then
   echo "reference data already in $target/"
   exit 0
 fi
