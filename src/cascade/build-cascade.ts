@@ -64,6 +64,7 @@ export interface StageReport {
 /** Progress of training, for a live progress line. */
 export type TrainingEvent =
   | { readonly phase: 'mining'; readonly stageIndex: number; readonly found: number; readonly wanted: number; readonly scanned: number }
+  | { readonly phase: 'responses'; readonly stageIndex: number; readonly features: number; readonly samples: number }
   | { readonly phase: 'boosting'; readonly stageIndex: number; readonly weakClassifiers: number; readonly detectionRate: number; readonly falsePositiveRate: number }
   | { readonly phase: 'stage-finished'; readonly report: StageReport };
 
@@ -167,6 +168,7 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
       );
     }
 
+    options.onEvent?.({ phase: 'responses', stageIndex, features: features.length, samples: trainingKept.length + mined.negatives.length });
     const result = await trainStage({
       features,
       positives: packWindowSamples(trainingKept, windowWidth, windowHeight),

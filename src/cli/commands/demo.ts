@@ -108,6 +108,8 @@ async function runDemo(flags: DemoFlags): Promise<void> {
       onEvent: (event) => {
         if (event.phase === 'mining') {
           progress.update(`mining-${event.stageIndex}`, `   stage ${event.stageIndex + 1}: mining negatives`, event.found, event.wanted);
+        } else if (event.phase === 'responses') {
+          progress.update(`responses-${event.stageIndex}`, `   stage ${event.stageIndex + 1}: computing feature responses on ${event.samples} windows`, undefined, undefined, true);
         } else if (event.phase === 'boosting') {
           progress.update(`boosting-${event.stageIndex}`, `   stage ${event.stageIndex + 1}: ${event.weakClassifiers} weak classifiers, false positives ${event.falsePositiveRate.toFixed(3)}`);
         } else {

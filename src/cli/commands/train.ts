@@ -263,6 +263,15 @@ function showEvent(progress: ProgressLine, event: TrainingEvent): void {
         event.wanted,
       );
       break;
+    case 'responses':
+      progress.update(
+        `responses-${event.stageIndex}`,
+        `stage ${event.stageIndex + 1}: computing ${formatCount(event.features)} feature responses on ${event.samples} windows`,
+        undefined,
+        undefined,
+        true,
+      );
+      break;
     case 'boosting':
       progress.update(
         `boosting-${event.stageIndex}`,
