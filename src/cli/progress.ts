@@ -34,7 +34,7 @@ export class ProgressLine {
       const eta = rate > 0 && done < total ? ` · about ${formatDuration((total - done) / rate)} left` : '';
       line += ` ${done}/${total}${rate > 0 ? ` · ${formatCount(rate)}/s` : ''}${eta}`;
     }
-    const width = this.stream.columns ?? 100;
+    const width = this.stream.columns || 100;
     this.stream.write(`\r${line.slice(0, Math.max(20, width - 1))}\x1b[K`);
     this.shown = true;
   }
