@@ -232,38 +232,48 @@ export function scanImage(cascade: DetectorCascade, integral: IntegralImage, opt
     scales: 0,
   };
   const hits = new HitCollector();
-  const rejected = new Float64Array(cascade.stages.length);
+  const tally = new Float64Array(TALLY_REJECTED + cascade.stages.length);
   const live = new LiveWindows();
   for (const scale of scanScales(cascade, integral.width, integral.height, resolved)) {
     const compiled = compileAtScale(cascade, scale, integral.stride, resolved.shift);
-    scanOneScale(compiled, integral, statistics, rejected, hits, live);
+    scanOneScale(compiled, integral, tally, hits, live);
     statistics.scales++;
   }
-  for (let k = 0; k < rejected.length; k++) statistics.rejectedAtStage[k] = rejected[k]!;
+  statistics.windowsScanned = tally[TALLY_WINDOWS]!;
+  statistics.flatWindows = tally[TALLY_FLAT]!;
+  statistics.featuresEvaluated = tally[TALLY_FEATURES]!;
+  statistics.accepted = tally[TALLY_ACCEPTED]!;
+  for (let k = 0; k < cascade.stages.length; k++) statistics.rejectedAtStage[k] = tally[TALLY_REJECTED + k]!;
   return { hits: hits.toRawHits(), statistics };
 }
 
 /**
  * Buffers of the live windows of one row, reused across rows and scales: the
- * table offset of each window's top-left corner, its 1/σ, its x, and its
- * running stage score. Capacity grows to the widest row seen.
+ * table offset of each window's top-left corner, its 1/σ, and its running
+ * stage score. Capacity grows to the widest row seen.
  */
 class LiveWindows {
   bases = new Int32Array(0);
   inverseDeviations = new Float64Array(0);
-  columnsX = new Int32Array(0);
   scores = new Float64Array(0);
   reserve(capacity: number): void {
     if (this.bases.length >= capacity) return;
     this.bases = new Int32Array(capacity);
     this.inverseDeviations = new Float64Array(capacity);
-    this.columnsX = new Int32Array(capacity);
     this.scores = new Float64Array(capacity);
   }
 }
 
+// Slots of the work tally (a Float64Array) that scanOneScale adds to row by row;
+// rejections by stage k go to slot TALLY_REJECTED + k.
+const TALLY_WINDOWS = 0;
+const TALLY_FLAT = 1;
+const TALLY_FEATURES = 2;
+const TALLY_ACCEPTED = 3;
+const TALLY_REJECTED = 4;
+
 // The hot loop, breadth first within a row. The row's non-flat windows are
-// gathered into compact lists (table offset, 1/σ, x); then each stage runs over
+// gathered into compact lists (table offset, 1/σ); then each stage runs over
 // the whole list one weak classifier at a time, and the list is compacted to
 // the windows that pass. Every stage — not only the first — thus runs a tight
 // loop with the classifier's corners and coefficients in locals (evaluateWeak),
@@ -271,7 +281,13 @@ class LiveWindows {
 // bit-identical to evaluating window by window: the same corners are summed in
 // the same order, the value is multiplied by the same 1/σ, and outputs are
 // added to the stage score in classifier order.
-function scanOneScale(c: ScaledCascade, integral: IntegralImage, statistics: ScanStatistics, rejected: Float64Array, hits: HitCollector, live: LiveWindows): void {
+//
+// Counters go to the typed-array tally once per row, never to object fields
+// after the loops: V8 compiles this function while its loops run (on-stack
+// replacement), and code after the loops that has not yet run when it is
+// compiled has no type feedback, so reaching it throws the compiled code away
+// (seen with --trace-deopt, once per scale).
+function scanOneScale(c: ScaledCascade, integral: IntegralImage, tally: Float64Array, hits: HitCollector, live: LiveWindows): void {
   const { sum, squaredSum, stride } = integral;
   const { stageEnds, thresholds, weakEnds, splitValues, belowOutputs, aboveOutputs, offsets, coefficients, step } = c;
   const windowWidth = c.windowWidth;
@@ -285,17 +301,13 @@ function scanOneScale(c: ScaledCascade, integral: IntegralImage, statistics: Sca
   const lastY = integral.height - windowHeight;
   const columns = Math.floor(lastX / step) + 1;
   live.reserve(columns);
-  const { bases, inverseDeviations, columnsX, scores } = live;
-  let windows = 0;
-  let flat = 0;
-  let features = 0;
-  let accepted = 0;
+  const { bases, inverseDeviations, scores } = live;
   for (let y = 0; y <= lastY; y += step) {
     const row = y * stride;
     // σ of every window of the row from the two tables (var = E[I²] − E[I]²);
     // flat windows are counted and left out of the list.
     let count = 0;
-    for (let x = 0, base = row; x <= lastX; x += step, base += step) {
+    for (let base = row, lastBase = row + lastX; base <= lastBase; base += step) {
       const total = sum[base + bottomRight]! - sum[base + bottomLeft]! - sum[base + windowWidth]! + sum[base]!;
       const totalSquared = squaredSum[base + bottomRight]! - squaredSum[base + bottomLeft]! - squaredSum[base + windowWidth]! + squaredSum[base]!;
       const mean = total * inverseCount;
@@ -303,17 +315,16 @@ function scanOneScale(c: ScaledCascade, integral: IntegralImage, statistics: Sca
       if (variance < flatVariance) continue;
       bases[count] = base;
       inverseDeviations[count] = 1 / Math.sqrt(variance);
-      columnsX[count] = x;
       count++;
     }
-    windows += columns;
-    flat += columns - count;
+    tally[TALLY_WINDOWS]! += columns;
+    tally[TALLY_FLAT]! += columns - count;
     let weak = 0;
     let corner = 0;
     for (let stage = 0; stage < stageCount && count > 0; stage++) {
       const weakEnd = stageEnds[stage]!;
       scores.fill(0, 0, count);
-      features += count * (weakEnd - weak);
+      tally[TALLY_FEATURES]! += count * (weakEnd - weak);
       for (; weak < weakEnd; weak++) {
         const cornerEnd = weakEnds[weak]!;
         evaluateWeak(sum, bases, inverseDeviations, scores, count, offsets, coefficients, corner, cornerEnd, splitValues[weak]!, belowOutputs[weak]!, aboveOutputs[weak]!);
@@ -327,22 +338,17 @@ function scanOneScale(c: ScaledCascade, integral: IntegralImage, statistics: Sca
         if (margin < 0) continue;
         bases[kept] = bases[i]!;
         inverseDeviations[kept] = inverseDeviations[i]!;
-        columnsX[kept] = columnsX[i]!;
         scores[kept] = margin;
         kept++;
       }
-      rejected[stage]! += count - kept;
+      tally[TALLY_REJECTED + stage]! += count - kept;
       count = kept;
     }
     // What is left passed every stage; scores hold the last stage's margins (or 0 without stages).
     if (stageCount === 0) scores.fill(0, 0, count);
-    accepted += count;
-    for (let i = 0; i < count; i++) hits.add(columnsX[i]!, y, windowWidth, windowHeight, scores[i]!);
+    tally[TALLY_ACCEPTED]! += count;
+    for (let i = 0; i < count; i++) hits.add(bases[i]! - row, y, windowWidth, windowHeight, scores[i]!);
   }
-  statistics.windowsScanned += windows;
-  statistics.flatWindows += flat;
-  statistics.featuresEvaluated += features;
-  statistics.accepted += accepted;
 }
 
 /**
