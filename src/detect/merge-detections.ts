@@ -51,26 +51,70 @@ export function mergeDetections(hits: RawHits, options: MergeOptions = {}): Dete
   if (method === 'none') {
     detections = order.map((i) => ({ box: boxes[i]!, score: hits.score[i]!, support: 1 }));
   } else if (method === 'nms') {
-    const neighbours = overlappingPairs(boxes, overlap);
-    const rank = new Int32Array(hits.count);
-    order.forEach((i, position) => (rank[i] = position));
-    detections = [];
-    const suppressed = new Uint8Array(hits.count);
-    for (const i of order) {
-      if (suppressed[i]) continue;
-      let support = 1;
-      for (const j of neighbours[i]!) {
-        if (rank[j]! > rank[i]! && !suppressed[j]) {
-          suppressed[j] = 1;
-          support++;
-        }
-      }
-      detections.push({ box: boxes[i]!, score: hits.score[i]!, support });
-    }
+    detections = suppressNonMaxima(hits, boxes, order, overlap);
   } else {
     detections = meanOfGroups(hits, boxes, order, overlap);
   }
   return detections.filter((detection) => detection.support >= minSupport);
+}
+
+/**
+ * Greedy non-maximum suppression in score order. Only kept hits look for hits
+ * to suppress, and they look only among hits whose x-range meets theirs (a
+ * window of the x-sorted list, found by binary search), so dense raw hits —
+ * thousands of overlapping windows — cost about kept × local hits rather than
+ * every overlapping pair. Pairs whose y-ranges do not meet are skipped with
+ * the same sums intersectionOverUnion uses (it returns 0 for them).
+ */
+function suppressNonMaxima(hits: RawHits, boxes: readonly Box[], order: readonly number[], overlap: number): Detection[] {
+  const count = boxes.length;
+  const left = new Float64Array(count);
+  const top = new Float64Array(count);
+  const right = new Float64Array(count);
+  const bottom = new Float64Array(count);
+  let widest = 0;
+  boxes.forEach((box, i) => {
+    left[i] = box[0];
+    top[i] = box[1];
+    right[i] = box[0] + box[2];
+    bottom[i] = box[1] + box[3];
+    widest = Math.max(widest, box[2]);
+  });
+  const byX = Int32Array.from(boxes.keys()).sort((a, b) => left[a]! - left[b]!);
+  const sortedLeft = Float64Array.from(byX, (i) => left[i]!);
+  const rank = new Int32Array(count);
+  order.forEach((i, position) => (rank[i] = position));
+  const suppressed = new Uint8Array(count);
+  const detections: Detection[] = [];
+  for (const i of order) {
+    if (suppressed[i]) continue;
+    let support = 1;
+    // Boxes that can meet box i in x start at left[i] − widest (a box that starts further left ends before left[i]).
+    const from = lowerBound(sortedLeft, left[i]! - widest);
+    for (let b = from; b < count && sortedLeft[b]! < right[i]!; b++) {
+      const j = byX[b]!;
+      if (suppressed[j] || rank[j]! <= rank[i]! || right[j]! <= left[i]!) continue;
+      if (Math.min(bottom[i]!, bottom[j]!) - Math.max(top[i]!, top[j]!) <= 0) continue;
+      if (intersectionOverUnion(boxes[i]!, boxes[j]!) > overlap) {
+        suppressed[j] = 1;
+        support++;
+      }
+    }
+    detections.push({ box: boxes[i]!, score: hits.score[i]!, support });
+  }
+  return detections;
+}
+
+/** First index whose value is ≥ `value` in an ascending array. */
+function lowerBound(sorted: Float64Array, value: number): number {
+  let low = 0;
+  let high = sorted.length;
+  while (low < high) {
+    const middle = (low + high) >>> 1;
+    if (sorted[middle]! < value) low = middle + 1;
+    else high = middle;
+  }
+  return low;
 }
 
 function compareHits(hits: RawHits, a: number, b: number): number {
@@ -80,17 +124,36 @@ function compareHits(hits: RawHits, a: number, b: number): number {
 /**
  * For each box, the other boxes whose IoU with it exceeds `overlap`. A sweep
  * over boxes sorted by x only compares boxes whose x-ranges intersect, so sparse
- * hits cost about n log n instead of n².
+ * hits cost about n log n instead of n². Dense hits (thousands of windows a
+ * weak cascade accepts, sharing x-ranges across the whole image height) make
+ * that inner loop long, so it reads coordinates from flat arrays and skips
+ * pairs whose y-ranges do not meet before computing the IoU; the skip uses the
+ * same sums as intersectionOverUnion (y + height), which returns 0 for such
+ * pairs, so the neighbour lists are exactly those of testing every pair.
  */
 function overlappingPairs(boxes: readonly Box[], overlap: number): number[][] {
-  const byX = boxes.map((_, i) => i).sort((a, b) => boxes[a]![0] - boxes[b]![0] || a - b);
+  const count = boxes.length;
+  const left = new Float64Array(count);
+  const top = new Float64Array(count);
+  const right = new Float64Array(count);
+  const bottom = new Float64Array(count);
+  boxes.forEach((box, i) => {
+    left[i] = box[0];
+    top[i] = box[1];
+    right[i] = box[0] + box[2];
+    bottom[i] = box[1] + box[3];
+  });
+  const byX = Int32Array.from(boxes.keys()).sort((a, b) => left[a]! - left[b]! || a - b);
   const neighbours: number[][] = boxes.map(() => []);
-  for (let a = 0; a < byX.length; a++) {
+  for (let a = 0; a < count; a++) {
     const i = byX[a]!;
-    const right = boxes[i]![0] + boxes[i]![2];
-    for (let b = a + 1; b < byX.length; b++) {
+    const rightOfI = right[i]!;
+    const topOfI = top[i]!;
+    const bottomOfI = bottom[i]!;
+    for (let b = a + 1; b < count; b++) {
       const j = byX[b]!;
-      if (boxes[j]![0] >= right) break;
+      if (left[j]! >= rightOfI) break;
+      if (Math.min(bottomOfI, bottom[j]!) - Math.max(topOfI, top[j]!) <= 0) continue;
       if (intersectionOverUnion(boxes[i]!, boxes[j]!) > overlap) {
         neighbours[i]!.push(j);
         neighbours[j]!.push(i);

@@ -165,22 +165,42 @@ function addCorner(corners: Map<number, number>, offset: number, weight: number)
   corners.set(offset, (corners.get(offset) ?? 0) + weight);
 }
 
-/** Growable hit buffer; hits are rare, so plain arrays are fine. */
+/**
+ * Growable hit buffer in typed arrays (doubling), so that a cascade which
+ * accepts many windows — an empty or a weak one — costs no boxed numbers.
+ */
 class HitCollector {
-  x: number[] = [];
-  y: number[] = [];
-  width: number[] = [];
-  height: number[] = [];
-  score: number[] = [];
-  toRawHits(): RawHits {
-    return {
-      count: this.x.length,
-      x: Float64Array.from(this.x),
-      y: Float64Array.from(this.y),
-      width: Float64Array.from(this.width),
-      height: Float64Array.from(this.height),
-      score: Float64Array.from(this.score),
+  count = 0;
+  x: Float64Array = new Float64Array(256);
+  y: Float64Array = new Float64Array(256);
+  width: Float64Array = new Float64Array(256);
+  height: Float64Array = new Float64Array(256);
+  score: Float64Array = new Float64Array(256);
+  add(x: number, y: number, width: number, height: number, score: number): void {
+    if (this.count === this.x.length) this.grow();
+    const at = this.count++;
+    this.x[at] = x;
+    this.y[at] = y;
+    this.width[at] = width;
+    this.height[at] = height;
+    this.score[at] = score;
+  }
+  private grow(): void {
+    const capacity = this.x.length * 2;
+    const widen = (old: Float64Array): Float64Array => {
+      const wider = new Float64Array(capacity);
+      wider.set(old);
+      return wider;
     };
+    this.x = widen(this.x);
+    this.y = widen(this.y);
+    this.width = widen(this.width);
+    this.height = widen(this.height);
+    this.score = widen(this.score);
+  }
+  toRawHits(): RawHits {
+    const n = this.count;
+    return { count: n, x: this.x.slice(0, n), y: this.y.slice(0, n), width: this.width.slice(0, n), height: this.height.slice(0, n), score: this.score.slice(0, n) };
   }
 }
 
@@ -212,23 +232,62 @@ export function scanImage(cascade: DetectorCascade, integral: IntegralImage, opt
     scales: 0,
   };
   const hits = new HitCollector();
-  const rejected = new Float64Array(cascade.stages.length);
+  const tally = new Float64Array(TALLY_REJECTED + cascade.stages.length);
+  const live = new LiveWindows();
   for (const scale of scanScales(cascade, integral.width, integral.height, resolved)) {
     const compiled = compileAtScale(cascade, scale, integral.stride, resolved.shift);
-    scanOneScale(compiled, integral, statistics, rejected, hits);
+    scanOneScale(compiled, integral, tally, hits, live);
     statistics.scales++;
   }
-  for (let k = 0; k < rejected.length; k++) statistics.rejectedAtStage[k] = rejected[k]!;
+  statistics.windowsScanned = tally[TALLY_WINDOWS]!;
+  statistics.flatWindows = tally[TALLY_FLAT]!;
+  statistics.featuresEvaluated = tally[TALLY_FEATURES]!;
+  statistics.accepted = tally[TALLY_ACCEPTED]!;
+  for (let k = 0; k < cascade.stages.length; k++) statistics.rejectedAtStage[k] = tally[TALLY_REJECTED + k]!;
   return { hits: hits.toRawHits(), statistics };
 }
 
-// The hot loop. Everything it touches is a local typed array or number; no
-// allocation per window. Most windows die in stage 0, so stage 0 runs row by
-// row, one corner at a time over every window of the row: the inner loop then
-// reads the integral table at a fixed stride with independent accumulators,
-// which pipelines far better than finishing one window before the next.
-// Survivors of stage 0 continue window by window through the later stages.
-function scanOneScale(c: ScaledCascade, integral: IntegralImage, statistics: ScanStatistics, rejected: Float64Array, hits: HitCollector): void {
+/**
+ * Buffers of the live windows of one row, reused across rows and scales: the
+ * table offset of each window's top-left corner, its 1/σ, and its running
+ * stage score. Capacity grows to the widest row seen.
+ */
+class LiveWindows {
+  bases = new Int32Array(0);
+  inverseDeviations = new Float64Array(0);
+  scores = new Float64Array(0);
+  reserve(capacity: number): void {
+    if (this.bases.length >= capacity) return;
+    this.bases = new Int32Array(capacity);
+    this.inverseDeviations = new Float64Array(capacity);
+    this.scores = new Float64Array(capacity);
+  }
+}
+
+// Slots of the work tally (a Float64Array) that scanOneScale adds to row by row;
+// rejections by stage k go to slot TALLY_REJECTED + k.
+const TALLY_WINDOWS = 0;
+const TALLY_FLAT = 1;
+const TALLY_FEATURES = 2;
+const TALLY_ACCEPTED = 3;
+const TALLY_REJECTED = 4;
+
+// The hot loop, breadth first within a row. The row's non-flat windows are
+// gathered into compact lists (table offset, 1/σ); then each stage runs over
+// the whole list one weak classifier at a time, and the list is compacted to
+// the windows that pass. Every stage — not only the first — thus runs a tight
+// loop with the classifier's corners and coefficients in locals (evaluateWeak),
+// with no per-window branching between stages and no allocation. Decisions are
+// bit-identical to evaluating window by window: the same corners are summed in
+// the same order, the value is multiplied by the same 1/σ, and outputs are
+// added to the stage score in classifier order.
+//
+// Counters go to the typed-array tally once per row, never to object fields
+// after the loops: V8 compiles this function while its loops run (on-stack
+// replacement), and code after the loops that has not yet run when it is
+// compiled has no type feedback, so reaching it throws the compiled code away
+// (seen with --trace-deopt, once per scale).
+function scanOneScale(c: ScaledCascade, integral: IntegralImage, tally: Float64Array, hits: HitCollector, live: LiveWindows): void {
   const { sum, squaredSum, stride } = integral;
   const { stageEnds, thresholds, weakEnds, splitValues, belowOutputs, aboveOutputs, offsets, coefficients, step } = c;
   const windowWidth = c.windowWidth;
@@ -241,128 +300,106 @@ function scanOneScale(c: ScaledCascade, integral: IntegralImage, statistics: Sca
   const lastX = integral.width - windowWidth;
   const lastY = integral.height - windowHeight;
   const columns = Math.floor(lastX / step) + 1;
-  const inverseDeviations = new Float64Array(columns);
-  const values = new Float64Array(columns);
-  const scores = new Float64Array(columns);
-  const firstStageEnd = stageCount > 0 ? stageEnds[0]! : 0;
-  const firstThreshold = stageCount > 0 ? thresholds[0]! : 0;
-  let windows = 0;
-  let flat = 0;
-  let features = 0;
-  let accepted = 0;
-  let rejectedFirst = 0;
+  live.reserve(columns);
+  const { bases, inverseDeviations, scores } = live;
   for (let y = 0; y <= lastY; y += step) {
     const row = y * stride;
-    // Window σ for the whole row; 0 marks a flat window.
-    for (let column = 0, base = row; column < columns; column++, base += step) {
+    // σ of every window of the row from the two tables (var = E[I²] − E[I]²);
+    // flat windows are counted and left out of the list.
+    let count = 0;
+    for (let base = row, lastBase = row + lastX; base <= lastBase; base += step) {
       const total = sum[base + bottomRight]! - sum[base + bottomLeft]! - sum[base + windowWidth]! + sum[base]!;
       const totalSquared = squaredSum[base + bottomRight]! - squaredSum[base + bottomLeft]! - squaredSum[base + windowWidth]! + squaredSum[base]!;
       const mean = total * inverseCount;
       const variance = totalSquared * inverseCount - mean * mean;
-      inverseDeviations[column] = variance < flatVariance ? 0 : 1 / Math.sqrt(variance);
-      scores[column] = 0;
+      if (variance < flatVariance) continue;
+      bases[count] = base;
+      inverseDeviations[count] = 1 / Math.sqrt(variance);
+      count++;
     }
-    // Stage 0 for every window of the row (flat windows are computed too, then discarded).
+    tally[TALLY_WINDOWS]! += columns;
+    tally[TALLY_FLAT]! += columns - count;
+    let weak = 0;
     let corner = 0;
-    for (let weak = 0; weak < firstStageEnd; weak++) {
-      const cornerStart = corner;
-      const cornerEnd = weakEnds[weak]!;
-      corner = cornerEnd;
-      evaluateRow(sum, row, step, columns, offsets, coefficients, cornerStart, cornerEnd, values);
-      const split = splitValues[weak]!;
-      const below = belowOutputs[weak]!;
-      const above = aboveOutputs[weak]!;
-      for (let column = 0; column < columns; column++) scores[column]! += values[column]! * inverseDeviations[column]! < split ? below : above;
+    for (let stage = 0; stage < stageCount && count > 0; stage++) {
+      const weakEnd = stageEnds[stage]!;
+      scores.fill(0, 0, count);
+      tally[TALLY_FEATURES]! += count * (weakEnd - weak);
+      for (; weak < weakEnd; weak++) {
+        const cornerEnd = weakEnds[weak]!;
+        evaluateWeak(sum, bases, inverseDeviations, scores, count, offsets, coefficients, corner, cornerEnd, splitValues[weak]!, belowOutputs[weak]!, aboveOutputs[weak]!);
+        corner = cornerEnd;
+      }
+      // Keep the windows whose margin Σ outputs − threshold is ≥ 0, in order.
+      const threshold = thresholds[stage]!;
+      let kept = 0;
+      for (let i = 0; i < count; i++) {
+        const margin = scores[i]! - threshold;
+        if (margin < 0) continue;
+        bases[kept] = bases[i]!;
+        inverseDeviations[kept] = inverseDeviations[i]!;
+        scores[kept] = margin;
+        kept++;
+      }
+      tally[TALLY_REJECTED + stage]! += count - kept;
+      count = kept;
     }
-    const firstCornerEnd = corner;
-    windows += columns;
-    for (let column = 0; column < columns; column++) {
-      const inverseDeviation = inverseDeviations[column]!;
-      if (inverseDeviation === 0) {
-        flat++;
-        continue;
-      }
-      features += firstStageEnd;
-      let margin = scores[column]! - firstThreshold;
-      if (stageCount > 0 && margin < 0) {
-        rejectedFirst++;
-        continue;
-      }
-      const x = column * step;
-      const base = row + x;
-      let weak = firstStageEnd;
-      corner = firstCornerEnd;
-      let stage = 1;
-      for (; stage < stageCount; stage++) {
-        const weakEnd = stageEnds[stage]!;
-        let score = 0;
-        for (; weak < weakEnd; weak++) {
-          const cornerEnd = weakEnds[weak]!;
-          let value = 0;
-          for (; corner < cornerEnd; corner++) value += coefficients[corner]! * sum[base + offsets[corner]!]!;
-          score += value * inverseDeviation < splitValues[weak]! ? belowOutputs[weak]! : aboveOutputs[weak]!;
-        }
-        features += weakEnd - stageEnds[stage - 1]!;
-        margin = score - thresholds[stage]!;
-        if (margin < 0) break;
-      }
-      if (stage < stageCount) {
-        rejected[stage]!++;
-        continue;
-      }
-      accepted++;
-      hits.x.push(x);
-      hits.y.push(y);
-      hits.width.push(windowWidth);
-      hits.height.push(windowHeight);
-      hits.score.push(stageCount > 0 ? margin : 0);
-    }
+    // What is left passed every stage; scores hold the last stage's margins (or 0 without stages).
+    if (stageCount === 0) scores.fill(0, 0, count);
+    tally[TALLY_ACCEPTED]! += count;
+    for (let i = 0; i < count; i++) hits.add(bases[i]! - row, y, windowWidth, windowHeight, scores[i]!);
   }
-  if (stageCount > 0) rejected[0]! += rejectedFirst;
-  statistics.windowsScanned += windows;
-  statistics.flatWindows += flat;
-  statistics.featuresEvaluated += features;
-  statistics.accepted += accepted;
 }
 
 /**
- * Raw values of one weak classifier for a row of windows, into `values`.
+ * Adds one weak classifier's output to the score of each of the first `count`
+ * live windows: value = Σ coefficient · table[base + offset] over the corners
+ * start..end−1, then belowOutput if value · (1/σ) < splitValue, else aboveOutput.
  * The common corner counts of the five basic kinds (6 for two cells, 8 for
  * three, 9 for four) get their offsets and coefficients in locals, which
- * removes two array reads per corner from the innermost loop. The sum is
- * accumulated left to right in corner order, exactly as the generic loop
- * does, so results are bit-identical.
+ * removes two array reads per corner from the innermost loop; the sum is
+ * accumulated left to right in corner order, exactly as the generic loop does,
+ * so results are bit-identical.
  */
-function evaluateRow(sum: Float64Array, row: number, step: number, columns: number, offsets: Int32Array, coefficients: Float64Array, start: number, end: number, values: Float64Array): void {
-  const count = end - start;
-  if (count === 6 || count === 8 || count === 9) {
+function evaluateWeak(
+  sum: Float64Array, bases: Int32Array, inverseDeviations: Float64Array, scores: Float64Array, count: number,
+  offsets: Int32Array, coefficients: Float64Array, start: number, end: number, split: number, below: number, above: number,
+): void {
+  const corners = end - start;
+  if (corners === 6 || corners === 8 || corners === 9) {
     const o0 = offsets[start]!, o1 = offsets[start + 1]!, o2 = offsets[start + 2]!, o3 = offsets[start + 3]!, o4 = offsets[start + 4]!, o5 = offsets[start + 5]!;
     const c0 = coefficients[start]!, c1 = coefficients[start + 1]!, c2 = coefficients[start + 2]!, c3 = coefficients[start + 3]!, c4 = coefficients[start + 4]!, c5 = coefficients[start + 5]!;
-    if (count === 6) {
-      for (let column = 0, base = row; column < columns; column++, base += step) {
-        values[column] = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]!;
+    if (corners === 6) {
+      for (let i = 0; i < count; i++) {
+        const base = bases[i]!;
+        const value = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]!;
+        scores[i]! += value * inverseDeviations[i]! < split ? below : above;
       }
       return;
     }
     const o6 = offsets[start + 6]!, o7 = offsets[start + 7]!;
     const c6 = coefficients[start + 6]!, c7 = coefficients[start + 7]!;
-    if (count === 8) {
-      for (let column = 0, base = row; column < columns; column++, base += step) {
-        values[column] = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]! + c6 * sum[base + o6]! + c7 * sum[base + o7]!;
+    if (corners === 8) {
+      for (let i = 0; i < count; i++) {
+        const base = bases[i]!;
+        const value = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]! + c6 * sum[base + o6]! + c7 * sum[base + o7]!;
+        scores[i]! += value * inverseDeviations[i]! < split ? below : above;
       }
       return;
     }
     const o8 = offsets[start + 8]!;
     const c8 = coefficients[start + 8]!;
-    for (let column = 0, base = row; column < columns; column++, base += step) {
-      values[column] = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]! + c6 * sum[base + o6]! + c7 * sum[base + o7]! + c8 * sum[base + o8]!;
+    for (let i = 0; i < count; i++) {
+      const base = bases[i]!;
+      const value = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]! + c6 * sum[base + o6]! + c7 * sum[base + o7]! + c8 * sum[base + o8]!;
+      scores[i]! += value * inverseDeviations[i]! < split ? below : above;
     }
     return;
   }
-  values.fill(0, 0, columns);
-  for (let k = start; k < end; k++) {
-    const coefficient = coefficients[k]!;
-    for (let column = 0, at = row + offsets[k]!; column < columns; column++, at += step) values[column]! += coefficient * sum[at]!;
+  for (let i = 0; i < count; i++) {
+    const base = bases[i]!;
+    let value = 0;
+    for (let k = start; k < end; k++) value += coefficients[k]! * sum[base + offsets[k]!]!;
+    scores[i]! += value * inverseDeviations[i]! < split ? below : above;
   }
 }
-

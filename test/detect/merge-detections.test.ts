@@ -45,28 +45,37 @@ describe('merging raw hits', () => {
   });
 
   it('nms equals the textbook quadratic greedy loop on 400 random hits (brute-force twin)', () => {
-    const random = seedrandom('nms-twin');
-    const list = Array.from({ length: 400 }, () => {
-      const side = 10 + Math.floor(random() * 20);
-      return [Math.floor(random() * 150), Math.floor(random() * 150), side, side, Math.round(random() * 50) / 10] as [number, number, number, number, number];
-    });
-    const raw = hitsOf(list);
-    const order = list.map((_, i) => i).sort((a, b) => list[b]![4] - list[a]![4] || list[a]![0] - list[b]![0] || list[a]![1] - list[b]![1] || list[a]![2] - list[b]![2]);
-    const suppressed = new Set<number>();
-    const expected: Array<{ box: Box; score: number; support: number }> = [];
-    order.forEach((i, a) => {
-      if (suppressed.has(i)) return;
-      let support = 1;
-      for (const j of order.slice(a + 1)) {
-        const boxI = list[i]!.slice(0, 4) as unknown as Box;
-        const boxJ = list[j]!.slice(0, 4) as unknown as Box;
-        if (!suppressed.has(j) && intersectionOverUnion(boxI, boxJ) > 0.3) {
-          suppressed.add(j);
-          support++;
-        }
-      }
-      expected.push({ box: list[i]!.slice(0, 4) as unknown as Box, score: list[i]![4], support });
-    });
-    expect(mergeDetections(raw, { method: 'nms', overlap: 0.3 })).toEqual(expected);
+    expectTextbookNms('nms-twin', 400, 10, 20, 150);
+  });
+
+  it('nms equals the textbook greedy loop on 2000 dense hits of sides 10..169 (brute-force twin, many overlaps per hit)', () => {
+    expectTextbookNms('nms-dense-twin', 2000, 10, 160, 150);
   });
 });
+
+/** Greedy NMS at IoU 0.3 against the textbook quadratic loop, on seeded random square hits. */
+function expectTextbookNms(seed: string, count: number, smallestSide: number, sideRange: number, extent: number): void {
+  const random = seedrandom(seed);
+  const list = Array.from({ length: count }, () => {
+    const side = smallestSide + Math.floor(random() * sideRange);
+    return [Math.floor(random() * extent), Math.floor(random() * extent), side, side, Math.round(random() * 50) / 10] as [number, number, number, number, number];
+  });
+  const raw = hitsOf(list);
+  const order = list.map((_, i) => i).sort((a, b) => list[b]![4] - list[a]![4] || list[a]![0] - list[b]![0] || list[a]![1] - list[b]![1] || list[a]![2] - list[b]![2]);
+  const suppressed = new Set<number>();
+  const expected: Array<{ box: Box; score: number; support: number }> = [];
+  order.forEach((i, a) => {
+    if (suppressed.has(i)) return;
+    let support = 1;
+    for (const j of order.slice(a + 1)) {
+      const boxI = list[i]!.slice(0, 4) as unknown as Box;
+      const boxJ = list[j]!.slice(0, 4) as unknown as Box;
+      if (!suppressed.has(j) && intersectionOverUnion(boxI, boxJ) > 0.3) {
+        suppressed.add(j);
+        support++;
+      }
+    }
+    expected.push({ box: list[i]!.slice(0, 4) as unknown as Box, score: list[i]![4], support });
+  });
+  expect(mergeDetections(raw, { method: 'nms', overlap: 0.3 })).toEqual(expected);
+}
