@@ -122,17 +122,23 @@ function compareHits(hits: RawHits, a: number, b: number): number {
 }
 
 /**
- * For each box, the other boxes whose IoU with it exceeds `overlap`. A sweep
- * over boxes sorted by x only compares boxes whose x-ranges intersect, so sparse
- * hits cost about n log n instead of n². Dense hits (thousands of windows a
- * weak cascade accepts, sharing x-ranges across the whole image height) make
- * that inner loop long, so it reads coordinates from flat arrays and skips
- * pairs whose y-ranges do not meet before computing the IoU; the skip uses the
- * same sums as intersectionOverUnion (y + height), which returns 0 for such
- * pairs, so the neighbour lists are exactly those of testing every pair.
+ * Groups hits transitively linked by IoU > overlap with union–find, in one sweep
+ * over boxes sorted by x: only boxes whose x-ranges meet are compared, pairs whose
+ * y-ranges do not meet are skipped (intersectionOverUnion gives them 0), and pairs
+ * already in one group skip the IoU altogether, so the thousands of overlapping
+ * raw hits around a real object cost two root look-ups each. Connected groups do
+ * not depend on the order of unions, so the result equals testing every pair.
  */
-function overlappingPairs(boxes: readonly Box[], overlap: number): number[][] {
+function meanOfGroups(hits: RawHits, boxes: Box[], order: number[], overlap: number): Detection[] {
   const count = boxes.length;
+  const parent = Int32Array.from(boxes.keys());
+  const root = (i: number): number => {
+    while (parent[i] !== i) {
+      parent[i] = parent[parent[i]!]!;
+      i = parent[i]!;
+    }
+    return i;
+  };
   const left = new Float64Array(count);
   const top = new Float64Array(count);
   const right = new Float64Array(count);
@@ -144,7 +150,6 @@ function overlappingPairs(boxes: readonly Box[], overlap: number): number[][] {
     bottom[i] = box[1] + box[3];
   });
   const byX = Int32Array.from(boxes.keys()).sort((a, b) => left[a]! - left[b]! || a - b);
-  const neighbours: number[][] = boxes.map(() => []);
   for (let a = 0; a < count; a++) {
     const i = byX[a]!;
     const rightOfI = right[i]!;
@@ -154,27 +159,12 @@ function overlappingPairs(boxes: readonly Box[], overlap: number): number[][] {
       const j = byX[b]!;
       if (left[j]! >= rightOfI) break;
       if (Math.min(bottomOfI, bottom[j]!) - Math.max(topOfI, top[j]!) <= 0) continue;
-      if (intersectionOverUnion(boxes[i]!, boxes[j]!) > overlap) {
-        neighbours[i]!.push(j);
-        neighbours[j]!.push(i);
-      }
+      const rootOfI = root(i);
+      const rootOfJ = root(j);
+      if (rootOfI === rootOfJ) continue;
+      if (intersectionOverUnion(boxes[i]!, boxes[j]!) > overlap) parent[rootOfJ] = rootOfI;
     }
   }
-  return neighbours;
-}
-
-function meanOfGroups(hits: RawHits, boxes: Box[], order: number[], overlap: number): Detection[] {
-  const parent = boxes.map((_, i) => i);
-  const root = (i: number): number => {
-    while (parent[i] !== i) {
-      parent[i] = parent[parent[i]!]!;
-      i = parent[i]!;
-    }
-    return i;
-  };
-  overlappingPairs(boxes, overlap).forEach((list, i) => {
-    for (const j of list) parent[root(j)] = root(i);
-  });
   // Groups in the order of their best hit, so the output is sorted by score.
   const groups = new Map<number, number[]>();
   for (const i of order) {

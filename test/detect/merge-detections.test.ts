@@ -79,3 +79,25 @@ function expectTextbookNms(seed: string, count: number, smallestSide: number, si
   });
   expect(mergeDetections(raw, { method: 'nms', overlap: 0.3 })).toEqual(expected);
 }
+
+describe('mean merging on dense hits', () => {
+  it('groups exactly as union-find over every pair (quadratic twin) on 1500 hits', () => {
+    const random = seedrandom('mean-twin');
+    const list: Array<[number, number, number, number, number]> = [];
+    for (let i = 0; i < 1500; i++) {
+      const side = 10 + Math.floor(random() * 60);
+      list.push([Math.floor(random() * 300), Math.floor(random() * 200), side, side, Math.round(random() * 1000) / 100]);
+    }
+    const boxes: Box[] = list.map(([x, y, w, h]) => [x, y, w, h]);
+    const parent = boxes.map((_, i) => i);
+    const root = (i: number): number => (parent[i] === i ? i : (parent[i] = root(parent[i]!)));
+    for (let i = 0; i < boxes.length; i++) {
+      for (let j = i + 1; j < boxes.length; j++) if (intersectionOverUnion(boxes[i]!, boxes[j]!) > 0.4) parent[root(j)] = root(i);
+    }
+    const sizes = new Map<number, number>();
+    boxes.forEach((_, i) => sizes.set(root(i), (sizes.get(root(i)) ?? 0) + 1));
+    const merged = mergeDetections(hitsOf(list), { method: 'mean', overlap: 0.4 });
+    expect(merged.map((d) => d.support).sort((a, b) => a - b)).toEqual([...sizes.values()].sort((a, b) => a - b));
+    expect(merged.reduce((n, d) => n + d.support, 0)).toBe(1500);
+  });
+});
