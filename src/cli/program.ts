@@ -9,18 +9,7 @@ import { registerInspectCommand } from './commands/inspect.js';
 import { registerTuneCommand } from './commands/tune.js';
 import { EXIT_USAGE, exitCodeFor, formatError } from './messages.js';
 
-/** Commands of DESIGN §2 that later work will fill in; until then they say so. */
-const PLANNED_COMMANDS: ReadonlyArray<{ name: string; summary: string }> = [
-  { name: 'train', summary: 'train a cascade from a folder of positives and a folder of backgrounds' },
-  { name: 'detect', summary: 'find objects in images with a trained cascade' },
-  { name: 'evaluate', summary: 'measure a cascade on annotated images or labelled patches' },
-  { name: 'tune', summary: 'reset stage thresholds for new targets without retraining' },
-  { name: 'export', summary: 'write the runtime-only cascade JSON' },
-  { name: 'inspect', summary: 'show a per-stage table and draw the first features' },
-  { name: 'demo', summary: 'run the whole job on the shipped rivet-inspection data' },
-];
-
-/** Builds the commander program; `registered` names commands already built. */
+/** Builds the commander program with every command of DESIGN §2 (plus `check`). */
 export function buildProgram(): Command {
   const program = new Command();
   program
@@ -37,19 +26,6 @@ export function buildProgram(): Command {
   registerExportCommand(program);
   registerInspectCommand(program);
   registerDemoCommand(program);
-  const registered = new Set(program.commands.map((command) => command.name()));
-  for (const planned of PLANNED_COMMANDS) {
-    if (registered.has(planned.name)) continue;
-    program
-      .command(planned.name)
-      .description(`${planned.summary} (not built yet)`)
-      .allowUnknownOption()
-      .allowExcessArguments()
-      .action(() => {
-        process.stderr.write(`rectboost: the ${planned.name} command is not built yet in this version.\n`);
-        process.exitCode = 1;
-      });
-  }
   return program;
 }
 

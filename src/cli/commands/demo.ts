@@ -55,7 +55,7 @@ interface DemoFlags {
 export function registerDemoCommand(program: Command): void {
   program
     .command('demo')
-    .description('train, run and measure a rivet detector on the shipped demo data (about two minutes on 2 cores)')
+    .description('train, run and measure a rivet detector on the shipped demo data (under two minutes on 2 cores)')
     .option('--out <folder>', 'where the model, detections and annotated scenes go', 'demo-output')
     .option('--max-stages <count>', 'fewer stages for a quicker look')
     .option('--positives <count>', 'use only the first COUNT positive patches')
