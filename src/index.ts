@@ -112,3 +112,33 @@ export { detectFiles, type DetectFilesOptions, type FileOutcome, type ImageDetec
 
 // --- Peer benchmark support (issue 7): .npy writing for exchanging arrays with NumPy-based libraries
 export { encodeNpy, encodeNpyHeader, writeNpyFile, type NpyData, type NpyElementType } from './data/npy-writer.js';
+
+// --- Cascades (issue 4): model type and files, training loop, negative mining, data loading, checkpoints
+export {
+  CASCADE_FORMAT,
+  CASCADE_VERSION,
+  type CascadeModel,
+  type Stage,
+  type StageTrainingRecord,
+  type TrainingProvenance,
+  type WeakClassifier,
+} from './cascade/cascade-model.js';
+export { MODEL_LIMITS, parseCascadeModel, serializeCascadeModel, validateCascadeModel } from './cascade/model-json.js';
+export { stageScores, stagesPassed } from './cascade/stage-score.js';
+export { compileCascade, countStagesPassed, type CompiledCascade } from './cascade/window-classifier.js';
+export { BackgroundWindows, MINING_SCALE_STEP, mineHardNegatives, sampleUniformNegatives, type MiningProgress, type MiningResult } from './cascade/negative-mining.js';
+export {
+  trainCascade,
+  resolvableRate,
+  formatRate,
+  type CascadeStopReason,
+  type CascadeTrainingOptions,
+  type CascadeTrainingResult,
+  type StageReport,
+  type TrainingEvent,
+} from './cascade/build-cascade.js';
+export { loadCascadeModel, saveCascadeModel } from './io/model-file.js';
+export { readCheckpoint, writeCheckpoint, removeCheckpoint, type Checkpoint, type TrainingFingerprint } from './io/checkpoint.js';
+export { loadPositiveWindows, type LoadedPositives, type PositiveLoadOptions } from './data/positives.js';
+export { loadBackgroundImages, type LoadedBackgrounds } from './data/backgrounds.js';
+export { readImagesChecked, refuseBadImages, type CheckedImages, type ReadImagesOptions } from './data/read-images.js';
