@@ -74,7 +74,35 @@ interface ScaledCascade {
   readonly aboveOutputs: Float64Array;
   readonly offsets: Int32Array;
   readonly coefficients: Float64Array;
+  /** Stage 0 laid out for the fused row pass, or null when it does not fit that form. */
+  readonly firstStage: FirstStageBlock | null;
 }
+
+/**
+ * The first stage in the form the fused row pass (gatherFirstStage) takes: one
+ * or two weak classifiers of at most FIRST_STAGE_CORNERS corners each, every
+ * corner list padded to exactly that many with coefficient 0 at offset 0.
+ * Padding cannot change a decision: 0 · table value is ±0, and adding ±0 to a
+ * partial sum leaves it unchanged (at most the sign of a zero sum flips, and
+ * ±0 · 1/σ < split decides the same for both zeros). A single-classifier stage
+ * gets a second, empty classifier with split 0 and both outputs −0: its value
+ * is ±0, not below 0, so it adds −0, and x + (−0) = x for every x, −0 included.
+ */
+interface FirstStageBlock {
+  /** Weak classifiers of the real stage (1 or 2); the block always holds two. */
+  readonly weakCount: number;
+  readonly offsets: Int32Array;
+  readonly coefficients: Float64Array;
+  readonly splitValues: Float64Array;
+  readonly belowOutputs: Float64Array;
+  readonly aboveOutputs: Float64Array;
+  readonly threshold: number;
+}
+
+// Corners per weak classifier in the fused first-stage pass: 9 covers the four-cell
+// kind, the largest of the five basic kinds (6, 8 and 9 corners); padding a
+// 6- or 8-corner classifier up to 9 measured no slower than exact-size loops.
+const FIRST_STAGE_CORNERS = 9;
 
 /** Checks scan options once and fills in defaults. */
 export function resolveScanOptions(options: ScanOptions = {}): Required<Pick<ScanOptions, 'scaleStep' | 'shift'>> & ScanOptions {
@@ -145,6 +173,9 @@ function compileAtScale(cascade: DetectorCascade, scale: number, stride: number,
     stageEnds[stageIndex] = weakEnds.length;
     thresholds[stageIndex] = stage.threshold;
   });
+  const compiledOffsets = Int32Array.from(offsets);
+  const compiledCoefficients = Float64Array.from(coefficients);
+  const compiledWeakEnds = Int32Array.from(weakEnds);
   return {
     scale,
     windowWidth: Math.round(cascade.windowWidth * scale),
@@ -152,12 +183,38 @@ function compileAtScale(cascade: DetectorCascade, scale: number, stride: number,
     step: Math.max(1, Math.round(shift * scale)),
     stageEnds,
     thresholds,
-    weakEnds: Int32Array.from(weakEnds),
+    weakEnds: compiledWeakEnds,
     splitValues: Float64Array.from(splitValues),
     belowOutputs: Float64Array.from(belowOutputs),
     aboveOutputs: Float64Array.from(aboveOutputs),
-    offsets: Int32Array.from(offsets),
-    coefficients: Float64Array.from(coefficients),
+    offsets: compiledOffsets,
+    coefficients: compiledCoefficients,
+    firstStage: firstStageBlock(cascade, compiledWeakEnds, compiledOffsets, compiledCoefficients),
+  };
+}
+
+function firstStageBlock(cascade: DetectorCascade, weakEnds: Int32Array, offsets: Int32Array, coefficients: Float64Array): FirstStageBlock | null {
+  const stage = cascade.stages[0];
+  if (stage === undefined) return null;
+  const weakCount = stage.weakClassifiers.length;
+  if (weakCount !== 1 && weakCount !== 2) return null;
+  const blockOffsets = new Int32Array(2 * FIRST_STAGE_CORNERS);
+  const blockCoefficients = new Float64Array(2 * FIRST_STAGE_CORNERS);
+  for (let weak = 0; weak < weakCount; weak++) {
+    const start = weak === 0 ? 0 : weakEnds[weak - 1]!;
+    const end = weakEnds[weak]!;
+    if (end - start > FIRST_STAGE_CORNERS) return null;
+    blockOffsets.set(offsets.subarray(start, end), weak * FIRST_STAGE_CORNERS);
+    blockCoefficients.set(coefficients.subarray(start, end), weak * FIRST_STAGE_CORNERS);
+  }
+  return {
+    weakCount,
+    offsets: blockOffsets,
+    coefficients: blockCoefficients,
+    splitValues: Float64Array.from([0, 1], (weak) => stage.weakClassifiers[weak]?.splitValue ?? 0),
+    belowOutputs: Float64Array.from([0, 1], (weak) => stage.weakClassifiers[weak]?.belowOutput ?? -0),
+    aboveOutputs: Float64Array.from([0, 1], (weak) => stage.weakClassifiers[weak]?.aboveOutput ?? -0),
+    threshold: stage.threshold,
   };
 }
 
@@ -272,12 +329,14 @@ const TALLY_FEATURES = 2;
 const TALLY_ACCEPTED = 3;
 const TALLY_REJECTED = 4;
 
-// The hot loop, breadth first within a row. The row's non-flat windows are
-// gathered into compact lists (table offset, 1/σ); then each stage runs over
-// the whole list one weak classifier at a time, and the list is compacted to
-// the windows that pass. Every stage — not only the first — thus runs a tight
-// loop with the classifier's corners and coefficients in locals (evaluateWeak),
-// with no per-window branching between stages and no allocation. Decisions are
+// The hot loop, breadth first within a row. The row's windows that are not
+// flat — and, when the first stage fits FirstStageBlock, that pass the first
+// stage, evaluated in the same loop — are gathered into compact lists (table
+// offset, 1/σ, score); then each further stage runs over the whole list one
+// weak classifier at a time, and the list is compacted to the windows that
+// pass. Every stage thus runs a tight loop with the classifier's corners and
+// coefficients in locals (evaluateWeak), with no per-window branching between
+// stages and no allocation. Decisions are
 // bit-identical to evaluating window by window: the same corners are summed in
 // the same order, the value is multiplied by the same 1/σ, and outputs are
 // added to the stage score in classifier order.
@@ -297,6 +356,19 @@ function scanOneScale(c: ScaledCascade, integral: IntegralImage, tally: Float64A
   const bottomLeft = windowHeight * stride;
   const inverseCount = 1 / (windowWidth * windowHeight);
   const flatVariance = FLAT_WINDOW_VARIANCE;
+  // The first stage's corners, coefficients and outputs in locals for the fused pass (zeros when unused).
+  const block = c.firstStage;
+  const fused = block !== null;
+  const blockOffsets = block?.offsets ?? new Int32Array(2 * FIRST_STAGE_CORNERS);
+  const blockCoefficients = block?.coefficients ?? new Float64Array(2 * FIRST_STAGE_CORNERS);
+  const p0 = blockOffsets[0]!, p1 = blockOffsets[1]!, p2 = blockOffsets[2]!, p3 = blockOffsets[3]!, p4 = blockOffsets[4]!, p5 = blockOffsets[5]!, p6 = blockOffsets[6]!, p7 = blockOffsets[7]!, p8 = blockOffsets[8]!;
+  const q0 = blockOffsets[9]!, q1 = blockOffsets[10]!, q2 = blockOffsets[11]!, q3 = blockOffsets[12]!, q4 = blockOffsets[13]!, q5 = blockOffsets[14]!, q6 = blockOffsets[15]!, q7 = blockOffsets[16]!, q8 = blockOffsets[17]!;
+  const a0 = blockCoefficients[0]!, a1 = blockCoefficients[1]!, a2 = blockCoefficients[2]!, a3 = blockCoefficients[3]!, a4 = blockCoefficients[4]!, a5 = blockCoefficients[5]!, a6 = blockCoefficients[6]!, a7 = blockCoefficients[7]!, a8 = blockCoefficients[8]!;
+  const b0 = blockCoefficients[9]!, b1 = blockCoefficients[10]!, b2 = blockCoefficients[11]!, b3 = blockCoefficients[12]!, b4 = blockCoefficients[13]!, b5 = blockCoefficients[14]!, b6 = blockCoefficients[15]!, b7 = blockCoefficients[16]!, b8 = blockCoefficients[17]!;
+  const split0 = block?.splitValues[0] ?? 0, below0 = block?.belowOutputs[0] ?? 0, above0 = block?.aboveOutputs[0] ?? 0;
+  const split1 = block?.splitValues[1] ?? 0, below1 = block?.belowOutputs[1] ?? 0, above1 = block?.aboveOutputs[1] ?? 0;
+  const threshold0 = block?.threshold ?? 0;
+  const firstStageWeakCount = block?.weakCount ?? 0;
   const lastX = integral.width - windowWidth;
   const lastY = integral.height - windowHeight;
   const columns = Math.floor(lastX / step) + 1;
@@ -307,21 +379,54 @@ function scanOneScale(c: ScaledCascade, integral: IntegralImage, tally: Float64A
     // σ of every window of the row from the two tables (var = E[I²] − E[I]²);
     // flat windows are counted and left out of the list.
     let count = 0;
-    for (let base = row, lastBase = row + lastX; base <= lastBase; base += step) {
-      const total = sum[base + bottomRight]! - sum[base + bottomLeft]! - sum[base + windowWidth]! + sum[base]!;
-      const totalSquared = squaredSum[base + bottomRight]! - squaredSum[base + bottomLeft]! - squaredSum[base + windowWidth]! + squaredSum[base]!;
-      const mean = total * inverseCount;
-      const variance = totalSquared * inverseCount - mean * mean;
-      if (variance < flatVariance) continue;
-      bases[count] = base;
-      inverseDeviations[count] = 1 / Math.sqrt(variance);
-      count++;
+    let stage = 0;
+    if (fused) {
+      // The fused pass: σ and the whole first stage for each window in one
+      // loop, listing only the windows that pass (with their margin). Most
+      // windows die in the first stage, so listing every window, reading the
+      // list back once per classifier and compacting it cost more than the
+      // stage itself. Arithmetic is the breadth-first path's, operation for
+      // operation (see FirstStageBlock on the padding), score (0 + out₀) + out₁.
+      let nonFlat = 0;
+      for (let base = row, lastBase = row + lastX; base <= lastBase; base += step) {
+        const total = sum[base + bottomRight]! - sum[base + bottomLeft]! - sum[base + windowWidth]! + sum[base]!;
+        const totalSquared = squaredSum[base + bottomRight]! - squaredSum[base + bottomLeft]! - squaredSum[base + windowWidth]! + squaredSum[base]!;
+        const mean = total * inverseCount;
+        const variance = totalSquared * inverseCount - mean * mean;
+        if (variance < flatVariance) continue;
+        nonFlat++;
+        const inverseDeviation = 1 / Math.sqrt(variance);
+        const value0 = a0 * sum[base + p0]! + a1 * sum[base + p1]! + a2 * sum[base + p2]! + a3 * sum[base + p3]! + a4 * sum[base + p4]! + a5 * sum[base + p5]! + a6 * sum[base + p6]! + a7 * sum[base + p7]! + a8 * sum[base + p8]!;
+        const value1 = b0 * sum[base + q0]! + b1 * sum[base + q1]! + b2 * sum[base + q2]! + b3 * sum[base + q3]! + b4 * sum[base + q4]! + b5 * sum[base + q5]! + b6 * sum[base + q6]! + b7 * sum[base + q7]! + b8 * sum[base + q8]!;
+        const margin = ((0 + (value0 * inverseDeviation < split0 ? below0 : above0)) + (value1 * inverseDeviation < split1 ? below1 : above1)) - threshold0;
+        if (margin < 0) continue;
+        bases[count] = base;
+        inverseDeviations[count] = inverseDeviation;
+        scores[count] = margin;
+        count++;
+      }
+      tally[TALLY_WINDOWS]! += columns;
+      tally[TALLY_FLAT]! += columns - nonFlat;
+      tally[TALLY_FEATURES]! += nonFlat * firstStageWeakCount;
+      tally[TALLY_REJECTED]! += nonFlat - count;
+      stage = 1;
+    } else {
+      for (let base = row, lastBase = row + lastX; base <= lastBase; base += step) {
+        const total = sum[base + bottomRight]! - sum[base + bottomLeft]! - sum[base + windowWidth]! + sum[base]!;
+        const totalSquared = squaredSum[base + bottomRight]! - squaredSum[base + bottomLeft]! - squaredSum[base + windowWidth]! + squaredSum[base]!;
+        const mean = total * inverseCount;
+        const variance = totalSquared * inverseCount - mean * mean;
+        if (variance < flatVariance) continue;
+        bases[count] = base;
+        inverseDeviations[count] = 1 / Math.sqrt(variance);
+        count++;
+      }
+      tally[TALLY_WINDOWS]! += columns;
+      tally[TALLY_FLAT]! += columns - count;
     }
-    tally[TALLY_WINDOWS]! += columns;
-    tally[TALLY_FLAT]! += columns - count;
-    let weak = 0;
-    let corner = 0;
-    for (let stage = 0; stage < stageCount && count > 0; stage++) {
+    let weak = stage === 0 ? 0 : stageEnds[0]!;
+    let corner = weak === 0 ? 0 : weakEnds[weak - 1]!;
+    for (; stage < stageCount && count > 0; stage++) {
       const weakEnd = stageEnds[stage]!;
       scores.fill(0, 0, count);
       tally[TALLY_FEATURES]! += count * (weakEnd - weak);

@@ -47,6 +47,71 @@ describe('scan against a brute-force twin', () => {
   });
 });
 
+describe('scan against a brute-force twin, for every shape of first stage', () => {
+  // The first stage takes a fused pass when it has one or two classifiers of at
+  // most 9 corners, and the breadth-first list path otherwise (three classifiers);
+  // a one-stage cascade reports the fused pass's margins as scores. Every shape must
+  // give the twin's hits, scores and counters. The twin decides per window with
+  // evaluateNormalizedFeature and sums outputs from 0 in classifier order, so
+  // scores (sums of outputs minus the threshold) must match exactly.
+  const shapes: { name: string; stageSizes: number[] }[] = [
+    { name: 'one classifier, then two stages', stageSizes: [1, 3, 2] },
+    { name: 'two classifiers, then one stage', stageSizes: [2, 3] },
+    { name: 'three classifiers (list path)', stageSizes: [3, 2] },
+    { name: 'a single stage of two classifiers', stageSizes: [2] },
+    { name: 'a single stage of one classifier', stageSizes: [1] },
+  ];
+  for (const { name, stageSizes } of shapes) {
+    it(`${name}: same hits, scores, rejections by stage and weak classifiers evaluated`, () => {
+      const random = seedrandom(`shape-${name}`);
+      const features = enumerateFeatures(12, 10);
+      const model: CascadeModel = {
+        format: 'rectboost-cascade', version: 1, window: { width: 12, height: 10 }, normalization: 'window-standard-deviation', featureSet: 'basic',
+        // A lone classifier needs threshold 0 to reject anything (below outputs are < 0, above ≥ 0).
+        stages: stageSizes.map((size) => ({
+          threshold: size === 1 ? 0 : -0.3 * random(),
+          weakClassifiers: Array.from({ length: size }, () => ({ feature: features[Math.floor(random() * features.length)]!, splitValue: random() - 0.5, belowOutput: -random(), aboveOutput: random() })),
+        })),
+      };
+      const image = randomGrayImage(46, 38, `shape-image-${name}`);
+      const integral = computeIntegralImage(image);
+      const options = { scaleStep: 1.3, shift: 1 };
+      const { hits, statistics } = scanImage(detectorCascadeFromModel(model), integral, options);
+      const expected: string[] = [];
+      const rejectedAtStage = model.stages.map(() => 0);
+      let featuresEvaluated = 0;
+      for (const scale of scanScales({ windowWidth: 12, windowHeight: 10 }, 46, 38, options)) {
+        const width = Math.round(12 * scale);
+        const height = Math.round(10 * scale);
+        const step = Math.max(1, Math.round(scale));
+        for (let y = 0; y + height <= 38; y += step) {
+          for (let x = 0; x + width <= 46; x += step) {
+            let margin = 0;
+            const failedAt = model.stages.findIndex((stage) => {
+              let score = 0;
+              for (const weak of stage.weakClassifiers) {
+                score += evaluateNormalizedFeature(integral, weak.feature, x, y, 12, 10, scale) < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
+              }
+              featuresEvaluated += stage.weakClassifiers.length;
+              margin = score - stage.threshold;
+              return score < stage.threshold;
+            });
+            if (failedAt >= 0) rejectedAtStage[failedAt]!++;
+            else expected.push(`${x},${y},${width},${height},${margin}`);
+          }
+        }
+      }
+      const found = Array.from({ length: hits.count }, (_, i) => `${hits.x[i]},${hits.y[i]},${hits.width[i]},${hits.height[i]},${hits.score[i]}`);
+      expect(expected.length).toBeGreaterThan(10);
+      expect(rejectedAtStage[0]).toBeGreaterThan(10); // the first stage does reject: the test can tell decisions apart
+      expect(found.sort()).toEqual(expected.sort());
+      expect(statistics.flatWindows).toBe(0); // uniform random pixels: no window has variance < 1e-4
+      expect(statistics.rejectedAtStage).toEqual(rejectedAtStage);
+      expect(statistics.featuresEvaluated).toBe(featuresEvaluated);
+    });
+  }
+});
+
 describe('scan of free-form weighted rectangles (runtime files)', () => {
   it('accepts exactly what a per-window four-corner sum accepts, for 1- and 3-rectangle classifiers', async () => {
     const { rectangleSum } = await import('../../src/image/integral-image.js');
@@ -78,4 +143,48 @@ describe('scan of free-form weighted rectangles (runtime files)', () => {
     expect(expected.length).toBeLessThan(31 * 21); // not everything: the test can tell decisions apart
     expect(found.sort()).toEqual(expected.sort());
   });
+});
+
+describe('decisions at exact ties (split equal to a window normalized value)', () => {
+  // At scale 1 a basic feature's value is an exact integer (integer weights times
+  // integer table entries), and the scan's 1/σ is documented as 1 / √(T²·(1/n) − (T·(1/n))²)
+  // with T, T² the window's sum and sum of squares and n its pixel count. So the test
+  // can form the scan's own normalized value p = value · (1/σ) and put the split
+  // exactly there: value · (1/σ) < split is false at split = p (the window passes,
+  // above output +1) and true one ulp above (it fails, below output −1). Any
+  // rescaling of the value or of 1/σ, however small, would move some of these.
+  const nextUp = (value: number): number => {
+    const bits = new BigInt64Array(new Float64Array([value]).buffer);
+    bits[0] = value >= 0 ? bits[0]! + 1n : bits[0]! - 1n;
+    return new Float64Array(bits.buffer)[0]!;
+  };
+  for (const copies of [1, 2, 3]) {
+    it(`first stage of ${copies} identical classifier${copies > 1 ? 's' : ''} (${copies < 3 ? 'fused pass' : 'list path'})`, async () => {
+      const { rectangleSum } = await import('../../src/image/integral-image.js');
+      const { featureCells } = await import('../../src/features/haar-feature.js');
+      const image = randomGrayImage(30, 24, `ties-${copies}`);
+      const integral = computeIntegralImage(image);
+      const features = enumerateFeatures(12, 10);
+      const random = seedrandom(`ties-windows-${copies}`);
+      for (let trial = 0; trial < 12; trial++) {
+        const feature = features[Math.floor(random() * features.length)]!;
+        const x = Math.floor(random() * 19);
+        const y = Math.floor(random() * 15);
+        const cells = featureCells(feature);
+        const value = cells.reduce((total, cell) => total + cell.weight * rectangleSum(integral.sum, integral.stride, x + cell.x, y + cell.y, cell.width, cell.height), 0);
+        const inverseCount = 1 / 120;
+        const mean = rectangleSum(integral.sum, integral.stride, x, y, 12, 10) * inverseCount;
+        const variance = rectangleSum(integral.squaredSum, integral.stride, x, y, 12, 10) * inverseCount - mean * mean;
+        const normalized = value * (1 / Math.sqrt(variance));
+        const passes = (split: number): boolean => {
+          const weak = { rectangles: cells, splitValue: split, belowOutput: -1, aboveOutput: 1 };
+          const cascade = { windowWidth: 12, windowHeight: 10, stages: [{ threshold: 0, weakClassifiers: Array.from({ length: copies }, () => weak) }] };
+          const { hits } = scanImage(cascade, integral, { largestSide: 12 });
+          return Array.from({ length: hits.count }, (_, i) => hits.x[i] === x && hits.y[i] === y).some(Boolean);
+        };
+        expect(passes(normalized)).toBe(true);
+        expect(passes(nextUp(normalized))).toBe(false);
+      }
+    });
+  }
 });
