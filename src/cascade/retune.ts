@@ -1,3 +1,4 @@
+import { thresholdForDetectionRate } from '../boost/stage-threshold.js';
 import { checkNumber, checkThat } from '../check.js';
 import type { WindowSamples } from '../features/window-samples.js';
 import type { CascadeModel, Stage } from './cascade-model.js';
@@ -55,10 +56,8 @@ export function retuneCascade(model: CascadeModel, positives: WindowSamples, opt
     const scores = stageScores(stage, positives);
     let threshold = stage.threshold;
     if (rate !== undefined && alive.length > 0) {
-      const reaching = alive.map((i) => scores[i]!).sort((a, b) => b - a);
-      // The small epsilon keeps 0.995 · 200 = 199.00000000000003 from asking for 200.
-      const needed = Math.min(reaching.length, Math.max(1, Math.ceil(rate * reaching.length - 1e-9)));
-      threshold = reaching[needed - 1]!;
+      // The same rule training uses to set a stage threshold.
+      threshold = thresholdForDetectionRate(alive.map((i) => scores[i]!), rate);
     }
     if (index === model.stages.length - 1) threshold += offset;
     const passing = alive.filter((i) => scores[i]! >= threshold);
