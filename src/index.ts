@@ -137,7 +137,7 @@ export {
   type StageReport,
   type TrainingEvent,
 } from './cascade/build-cascade.js';
-export { loadCascadeModel, saveCascadeModel } from './io/model-file.js';
+export { loadCascadeModel, saveCascadeModel, loadCascadeFile, loadFullModel, type LoadedCascade } from './io/model-file.js';
 export { readCheckpoint, writeCheckpoint, removeCheckpoint, type Checkpoint, type TrainingFingerprint } from './io/checkpoint.js';
 export { loadPositiveWindows, type LoadedPositives, type PositiveLoadOptions } from './data/positives.js';
 export { loadBackgroundImages, type LoadedBackgrounds } from './data/backgrounds.js';

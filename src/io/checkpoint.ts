@@ -1,7 +1,7 @@
 import { readFile, rm, rmdir } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { CascadeModel } from '../cascade/cascade-model.js';
-import { parseCascadeModel, serializeCascadeModel } from '../cascade/model-json.js';
+import { serializeCascadeModel, validateCascadeModel } from '../cascade/model-json.js';
 import { RectboostError } from '../errors.js';
 import { writeFileAtomic } from './atomic-write.js';
 
@@ -66,7 +66,7 @@ export async function readCheckpoint(directory: string, expected: TrainingFinger
       );
     }
   }
-  const model = parseCascadeModel(JSON.stringify(raw.model), path);
+  const model = validateCascadeModel(raw.model, path);
   const stageSeconds = raw.stageSeconds.map((value) => (typeof value === 'number' && Number.isFinite(value) ? value : 0));
   return { model, fingerprint: expected, stageSeconds };
 }

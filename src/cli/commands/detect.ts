@@ -6,7 +6,7 @@ import { writeFileAtomic } from '../../io/atomic-write.js';
 import { DETECTION_COLOUR, drawBoxes } from '../../io/draw-boxes.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
 import { detectFiles, type ImageDetections } from '../../parallel/detect-files.js';
-import { loadCascadeFile } from '../load-cascade-file.js';
+import { loadCascadeFile } from '../../io/model-file.js';
 import { createProgressLine } from '../progress.js';
 import { addScanOptions, parseScanOptions, type ScanOptionText } from '../scan-options.js';
 

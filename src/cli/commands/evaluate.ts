@@ -9,7 +9,7 @@ import { evaluatePatches } from '../../metrics/patch-evaluation.js';
 import { detectFiles } from '../../parallel/detect-files.js';
 import type { ScanStatistics } from '../../detect/scan-image.js';
 import type { Box } from '../../metrics/intersection-over-union.js';
-import { loadCascadeFile } from '../load-cascade-file.js';
+import { loadCascadeFile } from '../../io/model-file.js';
 import { createProgressLine } from '../progress.js';
 import { parseNumber } from '../parse-options.js';
 import { addScanOptions, parseScanOptions, type ScanOptionText } from '../scan-options.js';

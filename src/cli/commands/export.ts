@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { runtimeCascadeFromValue, runtimeFileFromDetector } from '../../cascade/runtime-export.js';
 import { writeFileAtomic } from '../../io/atomic-write.js';
-import { loadCascadeFile } from '../load-cascade-file.js';
+import { loadCascadeFile } from '../../io/model-file.js';
 
 /** `rectboost export MODEL --out FILE` */
 export function registerExportCommand(program: Command): void {

@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import { writeFileAtomic } from '../../io/atomic-write.js';
 import { drawFeatureSheet } from '../../io/draw-features.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
-import { loadFullModel } from '../load-cascade-file.js';
+import { loadFullModel } from '../../io/model-file.js';
 import { parseInteger } from '../parse-options.js';
 
 function percent(value: number | undefined): string {

@@ -7,7 +7,7 @@ import { RectboostError } from '../../errors.js';
 import { packWindowSamples } from '../../features/window-samples.js';
 import { saveCascadeModel } from '../../io/model-file.js';
 import { createScanPool } from '../../parallel/scan-pool.js';
-import { loadFullModel } from '../load-cascade-file.js';
+import { loadFullModel } from '../../io/model-file.js';
 import { parseInteger, parseNumber } from '../parse-options.js';
 
 const rate = (value: number): string => `${(100 * value).toFixed(2)}%`;
