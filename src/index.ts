@@ -37,7 +37,7 @@ export { listImageFiles, listImageFilesOfAll } from './data/list-images.js';
 // Data-set readers: NumPy .npy and IDX files, lfw_subset and Fashion-MNIST loaders.
 export { readNpy, readNpyFile, type NpyArray } from './data/npy-reader.js';
 export { readIdx, readIdxFile, type IdxArray } from './data/idx-reader.js';
-export { loadLfwSubset, LFW_SUBSET_ITEMS_PER_CLASS, LFW_SUBSET_SIDE, type LfwSubset } from './data/lfw-subset.js';
+export { loadLfwSubset, lfwSubsetFromArray, LFW_SUBSET_ITEMS_PER_CLASS, LFW_SUBSET_SIDE, type LfwSubset } from './data/lfw-subset.js';
 export { loadFashionMnist, FASHION_MNIST_SIDE, type FashionMnistSplit } from './data/fashion-mnist.js';
 
 // --- Boosting engine (issue 3): response matrix, weak-learner search, AdaBoost, stage training, worker pool

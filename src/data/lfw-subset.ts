@@ -1,6 +1,6 @@
 import { RectboostError } from '../errors.js';
 import type { GrayImage } from '../image/gray-image.js';
-import { readNpyFile } from './npy-reader.js';
+import { readNpyFile, type NpyArray } from './npy-reader.js';
 
 /** Faces and non-faces of scikit-image's lfw_subset, as 8-bit gray images. */
 export interface LfwSubset {
@@ -23,7 +23,15 @@ export const LFW_SUBSET_SIDE = 25;
  * @example const { faces, nonFaces } = await loadLfwSubset('reference-data/lfw_subset.npy');
  */
 export async function loadLfwSubset(path: string): Promise<LfwSubset> {
-  const array = await readNpyFile(path);
+  return lfwSubsetFromArray(await readNpyFile(path), path);
+}
+
+/**
+ * The conversion of loadLfwSubset on an already-read array (for callers that read
+ * the file themselves); `label` names the source in errors.
+ * @throws RectboostError `bad-data` unless the array is 200 × 25 × 25 float.
+ */
+export function lfwSubsetFromArray(array: NpyArray, label: string): LfwSubset {
   const [count, height, width] = array.shape;
   if (
     array.shape.length !== 3 || count !== 2 * LFW_SUBSET_ITEMS_PER_CLASS ||
@@ -31,7 +39,7 @@ export async function loadLfwSubset(path: string): Promise<LfwSubset> {
   ) {
     throw new RectboostError(
       'bad-data',
-      `${path} should hold lfw_subset's 200 × 25 × 25 float array; it holds (${array.shape.join(', ')}) of '${array.dtype}'. Use the file from scikit-image's data folder.`,
+      `${label} should hold lfw_subset's 200 × 25 × 25 float array; it holds (${array.shape.join(', ')}) of '${array.dtype}'. Use the file from scikit-image's data folder.`,
     );
   }
   const pixels = LFW_SUBSET_SIDE * LFW_SUBSET_SIDE;

@@ -1,5 +1,6 @@
-import { existsSync, readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
+import { readFileSync } from 'node:fs';
+import { REFERENCE_DATA, shouldRunWith } from '../data/reference-files.js';
+import { lfwSubsetFromArray } from '../../src/data/lfw-subset.js';
 import { readNpy } from '../../src/data/npy-reader.js';
 import type { GrayImage } from '../../src/image/gray-image.js';
 
@@ -8,27 +9,16 @@ import type { GrayImage } from '../../src/image/gray-image.js';
  * scripts/fetch-reference-data.sh): 200 patches of 25×25 float64 in [0, 1], the first 100
  * faces from Labeled Faces in the Wild, the last 100 non-faces (skimage.data.lfw_subset docs).
  */
-export const LFW_PATH = fileURLToPath(new URL('../../reference-data/lfw_subset.npy', import.meta.url));
+export const LFW_PATH = REFERENCE_DATA + 'lfw_subset.npy';
 
-/**
- * True when the file is there. Under CI (process.env.CI) a missing file throws, so the
- * suite fails instead of silently skipping; elsewhere the caller skips.
- */
+/** Whether the lfw tests run: the shared rule of shouldRunWith (under CI a missing file fails, never skips). */
 export function lfwAvailable(): boolean {
-  if (existsSync(LFW_PATH)) return true;
-  if (process.env.CI) throw new Error(`${LFW_PATH} is missing; CI must run scripts/fetch-reference-data.sh first.`);
-  return false;
+  return shouldRunWith('lfw_subset.npy');
 }
 
-/** The patches as 8-bit images (round(v · 255)), split: even indices train, odd test. */
+/** The patches as 8-bit images (loadLfwSubset's conversion), split: even indices train, odd test. */
 export function loadLfwPatches(): { trainFaces: GrayImage[]; testFaces: GrayImage[]; trainOthers: GrayImage[]; testOthers: GrayImage[] } {
-  const { shape, data } = readNpy(readFileSync(LFW_PATH), LFW_PATH);
-  if (shape.join('x') !== '200x25x25') throw new Error(`Expected lfw_subset.npy of shape 200x25x25; it is ${shape.join('x')}.`);
-  const image = (index: number): GrayImage => {
-    const pixels = new Uint8Array(625);
-    for (let k = 0; k < 625; k++) pixels[k] = Math.round(data[index * 625 + k]! * 255);
-    return { width: 25, height: 25, data: pixels };
-  };
-  const pick = (first: number, parity: number): GrayImage[] => Array.from({ length: 50 }, (_, j) => image(first + 2 * j + parity));
-  return { trainFaces: pick(0, 0), testFaces: pick(0, 1), trainOthers: pick(100, 0), testOthers: pick(100, 1) };
+  const { faces, nonFaces } = lfwSubsetFromArray(readNpy(readFileSync(LFW_PATH), LFW_PATH), LFW_PATH);
+  const pick = (images: GrayImage[], parity: number): GrayImage[] => images.filter((_, i) => i % 2 === parity);
+  return { trainFaces: pick(faces, 0), testFaces: pick(faces, 1), trainOthers: pick(nonFaces, 0), testOthers: pick(nonFaces, 1) };
 }
