@@ -117,6 +117,7 @@ export { encodeNpy, encodeNpyHeader, writeNpyFile, type NpyData, type NpyElement
 export {
   CASCADE_FORMAT,
   CASCADE_VERSION,
+  newCascadeModel,
   type CascadeModel,
   type Stage,
   type StageTrainingRecord,
@@ -129,6 +130,7 @@ export { compileCascade, countStagesPassed, type CompiledCascade } from './casca
 export { BackgroundWindows, MINING_SCALE_STEP, mineHardNegatives, sampleUniformNegatives, type MiningProgress, type MiningResult } from './cascade/negative-mining.js';
 export {
   trainCascade,
+  heldOutCount,
   resolvableRate,
   formatRate,
   type CascadeStopReason,

@@ -256,6 +256,11 @@ export function resolvableRate(rate: number, negatives: number): number {
   return Math.max(rate, 1 / Math.max(1, negatives));
 }
 
+/** Positives held out for validation: round(count · share), at least 1 unless share is 0. */
+export function heldOutCount(count: number, validationShare: number): number {
+  return validationShare === 0 ? 0 : Math.max(1, Math.round(count * validationShare));
+}
+
 /** Seeded split of positives into training and validation; mirrored copies follow their source. */
 function splitPositives(options: CascadeTrainingOptions): { training: GrayImage[]; validation: GrayImage[] } {
   const count = options.positives.length;
@@ -265,7 +270,7 @@ function splitPositives(options: CascadeTrainingOptions): { training: GrayImage[
     const j = Math.floor(random() * (i + 1));
     [order[i], order[j]] = [order[j]!, order[i]!];
   }
-  const held = options.validationShare === 0 ? 0 : Math.max(1, Math.round(count * options.validationShare));
+  const held = heldOutCount(count, options.validationShare);
   const expand = (indices: number[]): GrayImage[] => {
     const originals = indices.map((i) => options.positives[i]!);
     return options.mirror ? [...originals, ...originals.map(mirrorGrayImage)] : originals;

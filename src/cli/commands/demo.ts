@@ -3,7 +3,7 @@ import { basename, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Command } from 'commander';
 import { formatRate, trainCascade } from '../../cascade/build-cascade.js';
-import { CASCADE_FORMAT, CASCADE_VERSION, type CascadeModel } from '../../cascade/cascade-model.js';
+import { newCascadeModel, type CascadeModel } from '../../cascade/cascade-model.js';
 import { loadAnnotations } from '../../data/annotations.js';
 import { loadBackgroundImages } from '../../data/backgrounds.js';
 import { loadPositiveWindows } from '../../data/positives.js';
@@ -119,13 +119,7 @@ async function runDemo(flags: DemoFlags): Promise<void> {
       },
     });
     say(`   ${result.stopMessage}`);
-    model = {
-      format: CASCADE_FORMAT,
-      version: CASCADE_VERSION,
-      window: { width: windowWidth, height: windowHeight },
-      normalization: 'window-standard-deviation',
-      featureSet: 'basic',
-      stages: result.stages,
+    model = newCascadeModel({ width: windowWidth, height: windowHeight }, result.stages, {
       meanPositive: result.meanPositive,
       training: {
         tool: 'rectboost demo',
@@ -140,7 +134,7 @@ async function runDemo(flags: DemoFlags): Promise<void> {
         },
         stopReason: result.stopMessage,
       },
-    };
+    });
   } finally {
     await pool.close();
   }

@@ -2,8 +2,8 @@ import { availableParallelism } from 'node:os';
 import { resolve } from 'node:path';
 import type { Command } from 'commander';
 import type { BoosterKind } from '../../boost/booster.js';
-import { trainCascade, formatRate, type StageReport, type TrainingEvent } from '../../cascade/build-cascade.js';
-import { CASCADE_FORMAT, CASCADE_VERSION, type CascadeModel, type Stage } from '../../cascade/cascade-model.js';
+import { heldOutCount, trainCascade, formatRate, type StageReport, type TrainingEvent } from '../../cascade/build-cascade.js';
+import { newCascadeModel, type CascadeModel, type Stage } from '../../cascade/cascade-model.js';
 import { loadBackgroundImages } from '../../data/backgrounds.js';
 import { loadPositiveWindows } from '../../data/positives.js';
 import { RectboostError, isRectboostError } from '../../errors.js';
@@ -163,14 +163,8 @@ async function runTrain(flags: TrainFlags): Promise<void> {
     progress.log(`resuming after ${completedStages.length} finished stage${completedStages.length === 1 ? '' : 's'} from ${checkpointDirectory}`);
   }
 
-  const buildModel = (stages: readonly Stage[], stopReason: string, meanPositive?: number[]): CascadeModel => {
-    const model: CascadeModel = {
-      format: CASCADE_FORMAT,
-      version: CASCADE_VERSION,
-      window: { width: window.width, height: window.height },
-      normalization: 'window-standard-deviation',
-      featureSet: 'basic',
-      stages,
+  const buildModel = (stages: readonly Stage[], stopReason: string, meanPositive?: number[]): CascadeModel =>
+    newCascadeModel(window, stages, {
       ...(meanPositive === undefined ? {} : { meanPositive }),
       training: {
         tool: TOOL,
@@ -178,7 +172,7 @@ async function runTrain(flags: TrainFlags): Promise<void> {
         options,
         data: {
           positives: positives.sourceCount,
-          validationPositives: validationShare === 0 ? 0 : Math.max(1, Math.round(positives.sourceCount * validationShare)),
+          validationPositives: heldOutCount(positives.sourceCount, validationShare),
           backgroundImages: backgrounds.images.length,
           positivesHash: positives.contentHash,
           backgroundsHash: backgrounds.contentHash,
@@ -188,9 +182,7 @@ async function runTrain(flags: TrainFlags): Promise<void> {
           ? { timing: { createdAt: new Date().toISOString(), totalSeconds: round3(stageSeconds.reduce((a, b) => a + b, 0)), stageSeconds: stageSeconds.map(round3) } }
           : {}),
       },
-    };
-    return model;
-  };
+    });
 
   // 2. Ctrl-C: stop between units of work, after any checkpoint write in progress.
   let interruptRequested = false;
