@@ -5,6 +5,7 @@ import { isRectboostError } from '../../src/errors.js';
 import { loadFashionMnist } from '../../src/data/fashion-mnist.js';
 import { readIdx, readIdxFile } from '../../src/data/idx-reader.js';
 import { REFERENCE_DATA, shouldRunWith } from './reference-files.js';
+import { errorOf } from '../helpers/error-of.js';
 
 // Values made by scripts/make-dataset-fixture.py with gzip + numpy.frombuffer (numpy version recorded).
 interface FashionFixture {
@@ -29,15 +30,6 @@ function idxBytes(type: number, sizes: number[], body: number[]): Uint8Array {
   sizes.forEach((size, d) => view.setUint32(4 + 4 * d, size, false));
   out.set(body, 4 + 4 * sizes.length);
   return out;
-}
-
-function errorOf(action: () => unknown): unknown {
-  try {
-    action();
-  } catch (error) {
-    return error;
-  }
-  return undefined;
 }
 
 describe('readIdx on hand-made files', () => {

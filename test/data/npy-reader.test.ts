@@ -4,6 +4,7 @@ import { isRectboostError } from '../../src/errors.js';
 import { loadLfwSubset } from '../../src/data/lfw-subset.js';
 import { readNpy, readNpyFile } from '../../src/data/npy-reader.js';
 import { REFERENCE_DATA, shouldRunWith } from './reference-files.js';
+import { errorOf } from '../helpers/error-of.js';
 
 // Values made by scripts/make-dataset-fixture.py with numpy.load (version recorded in the file).
 interface DatasetFixture {
@@ -41,15 +42,6 @@ function npyBytes(header: string, body: Uint8Array, major = 1): Uint8Array {
 
 function float64Body(values: number[]): Uint8Array {
   return new Uint8Array(new Float64Array(values).buffer);
-}
-
-function errorOf(action: () => unknown): unknown {
-  try {
-    action();
-  } catch (error) {
-    return error;
-  }
-  return undefined;
 }
 
 describe('readNpy on hand-made files', () => {
