@@ -2,6 +2,9 @@ import { checkInteger, checkNumber, checkThat } from '../check.js';
 import type { IntegralImage } from '../image/integral-image.js';
 import { FLAT_WINDOW_VARIANCE } from '../image/window-statistics.js';
 import type { DetectorCascade } from './detector-cascade.js';
+import {
+  loadImageIntoKernel, TALLY_ACCEPTED, TALLY_FEATURES, TALLY_FLAT, TALLY_REJECTED, TALLY_WINDOWS, type KernelImage, type ScaledCascade,
+} from './scan-kernel.js';
 
 /** Options of the multiscale scan. */
 export interface ScanOptions {
@@ -55,54 +58,6 @@ export interface ScanResult {
   readonly hits: RawHits;
   readonly statistics: ScanStatistics;
 }
-
-/**
- * One scale of a cascade compiled to flat typed arrays: every weak classifier's
- * rescaled rectangles merged into corner reads over the image's integral table
- * (offsets relative to the window's top-left table entry).
- */
-interface ScaledCascade {
-  readonly scale: number;
-  readonly windowWidth: number;
-  readonly windowHeight: number;
-  readonly step: number;
-  readonly stageEnds: Int32Array;
-  readonly thresholds: Float64Array;
-  readonly weakEnds: Int32Array;
-  readonly splitValues: Float64Array;
-  readonly belowOutputs: Float64Array;
-  readonly aboveOutputs: Float64Array;
-  readonly offsets: Int32Array;
-  readonly coefficients: Float64Array;
-  /** Stage 0 laid out for the fused row pass, or null when it does not fit that form. */
-  readonly firstStage: FirstStageBlock | null;
-}
-
-/**
- * The first stage in the form the fused row pass (gatherFirstStage) takes: one
- * or two weak classifiers of at most FIRST_STAGE_CORNERS corners each, every
- * corner list padded to exactly that many with coefficient 0 at offset 0.
- * Padding cannot change a decision: 0 · table value is ±0, and adding ±0 to a
- * partial sum leaves it unchanged (at most the sign of a zero sum flips, and
- * ±0 · 1/σ < split decides the same for both zeros). A single-classifier stage
- * gets a second, empty classifier with split 0 and both outputs −0: its value
- * is ±0, not below 0, so it adds −0, and x + (−0) = x for every x, −0 included.
- */
-interface FirstStageBlock {
-  /** Weak classifiers of the real stage (1 or 2); the block always holds two. */
-  readonly weakCount: number;
-  readonly offsets: Int32Array;
-  readonly coefficients: Float64Array;
-  readonly splitValues: Float64Array;
-  readonly belowOutputs: Float64Array;
-  readonly aboveOutputs: Float64Array;
-  readonly threshold: number;
-}
-
-// Corners per weak classifier in the fused first-stage pass: 9 covers the four-cell
-// kind, the largest of the five basic kinds (6, 8 and 9 corners); padding a
-// 6- or 8-corner classifier up to 9 measured no slower than exact-size loops.
-const FIRST_STAGE_CORNERS = 9;
 
 /** Checks scan options once and fills in defaults. */
 export function resolveScanOptions(options: ScanOptions = {}): Required<Pick<ScanOptions, 'scaleStep' | 'shift'>> & ScanOptions {
@@ -173,9 +128,6 @@ function compileAtScale(cascade: DetectorCascade, scale: number, stride: number,
     stageEnds[stageIndex] = weakEnds.length;
     thresholds[stageIndex] = stage.threshold;
   });
-  const compiledOffsets = Int32Array.from(offsets);
-  const compiledCoefficients = Float64Array.from(coefficients);
-  const compiledWeakEnds = Int32Array.from(weakEnds);
   return {
     scale,
     windowWidth: Math.round(cascade.windowWidth * scale),
@@ -183,38 +135,12 @@ function compileAtScale(cascade: DetectorCascade, scale: number, stride: number,
     step: Math.max(1, Math.round(shift * scale)),
     stageEnds,
     thresholds,
-    weakEnds: compiledWeakEnds,
+    weakEnds: Int32Array.from(weakEnds),
     splitValues: Float64Array.from(splitValues),
     belowOutputs: Float64Array.from(belowOutputs),
     aboveOutputs: Float64Array.from(aboveOutputs),
-    offsets: compiledOffsets,
-    coefficients: compiledCoefficients,
-    firstStage: firstStageBlock(cascade, compiledWeakEnds, compiledOffsets, compiledCoefficients),
-  };
-}
-
-function firstStageBlock(cascade: DetectorCascade, weakEnds: Int32Array, offsets: Int32Array, coefficients: Float64Array): FirstStageBlock | null {
-  const stage = cascade.stages[0];
-  if (stage === undefined) return null;
-  const weakCount = stage.weakClassifiers.length;
-  if (weakCount !== 1 && weakCount !== 2) return null;
-  const blockOffsets = new Int32Array(2 * FIRST_STAGE_CORNERS);
-  const blockCoefficients = new Float64Array(2 * FIRST_STAGE_CORNERS);
-  for (let weak = 0; weak < weakCount; weak++) {
-    const start = weak === 0 ? 0 : weakEnds[weak - 1]!;
-    const end = weakEnds[weak]!;
-    if (end - start > FIRST_STAGE_CORNERS) return null;
-    blockOffsets.set(offsets.subarray(start, end), weak * FIRST_STAGE_CORNERS);
-    blockCoefficients.set(coefficients.subarray(start, end), weak * FIRST_STAGE_CORNERS);
-  }
-  return {
-    weakCount,
-    offsets: blockOffsets,
-    coefficients: blockCoefficients,
-    splitValues: Float64Array.from([0, 1], (weak) => stage.weakClassifiers[weak]?.splitValue ?? 0),
-    belowOutputs: Float64Array.from([0, 1], (weak) => stage.weakClassifiers[weak]?.belowOutput ?? -0),
-    aboveOutputs: Float64Array.from([0, 1], (weak) => stage.weakClassifiers[weak]?.aboveOutput ?? -0),
-    threshold: stage.threshold,
+    offsets: Int32Array.from(offsets),
+    coefficients: Float64Array.from(coefficients),
   };
 }
 
@@ -274,7 +200,17 @@ class HitCollector {
  * by 1/σ, exactly as training's stageScores does, and the window leaves at the
  * first stage it fails (early rejection, the attentional cascade of Viola & Jones 2004).
  *
- * @throws RectboostError `invalid-option` for options out of range.
+ * The per-window work runs in the WebAssembly scan kernel (scan-kernel.wat),
+ * in this order of arithmetic, which every path must keep so that decisions
+ * and scores are the same bits as a window-by-window evaluation:
+ *   total = S[br] − S[bl] − S[tr] + S[tl] (and likewise from the squared table);
+ *   mean = total · (1/n); variance = squaredTotal · (1/n) − mean · mean;
+ *   value = ((0 + c₀·S[o₀]) + c₁·S[o₁]) + … over a classifier's merged corners;
+ *   output = value · (1/σ) < splitValue ? belowOutput : aboveOutput;
+ *   margin = ((0 + output₀) + output₁ + …) − threshold, passing when ≥ 0.
+ *
+ * @throws RectboostError `invalid-option` for options out of range; `bad-image`
+ *   when the image's tables do not fit WebAssembly's 4 GiB memory.
  * @example const { hits } = scanImage(detectorCascadeFromModel(model), computeIntegralImage(image));
  */
 export function scanImage(cascade: DetectorCascade, integral: IntegralImage, options: ScanOptions = {}): ScanResult {
@@ -289,222 +225,42 @@ export function scanImage(cascade: DetectorCascade, integral: IntegralImage, opt
     scales: 0,
   };
   const hits = new HitCollector();
-  const tally = new Float64Array(TALLY_REJECTED + cascade.stages.length);
-  const live = new LiveWindows();
-  for (const scale of scanScales(cascade, integral.width, integral.height, resolved)) {
-    const compiled = compileAtScale(cascade, scale, integral.stride, resolved.shift);
-    scanOneScale(compiled, integral, tally, hits, live);
-    statistics.scales++;
+  const scaled = scanScales(cascade, integral.width, integral.height, resolved).map((scale) => compileAtScale(cascade, scale, integral.stride, resolved.shift));
+  if (scaled.length === 0) return { hits: hits.toRawHits(), statistics };
+  const capacity = {
+    stages: cascade.stages.length,
+    weakClassifiers: Math.max(...scaled.map((c) => c.weakEnds.length)),
+    corners: Math.max(...scaled.map((c) => c.offsets.length)),
+  };
+  const columns = Math.max(...scaled.map((c) => Math.floor((integral.width - c.windowWidth) / c.step) + 1));
+  const kernel = loadImageIntoKernel(integral, capacity, columns);
+  try {
+    for (const c of scaled) {
+      scanOneScale(c, kernel, integral, hits);
+      statistics.scales++;
+    }
+    const tally = kernel.tally();
+    statistics.windowsScanned = tally[TALLY_WINDOWS]!;
+    statistics.flatWindows = tally[TALLY_FLAT]!;
+    statistics.featuresEvaluated = tally[TALLY_FEATURES]!;
+    statistics.accepted = tally[TALLY_ACCEPTED]!;
+    for (let k = 0; k < cascade.stages.length; k++) statistics.rejectedAtStage[k] = tally[TALLY_REJECTED + k]!;
+  } finally {
+    kernel.release();
   }
-  statistics.windowsScanned = tally[TALLY_WINDOWS]!;
-  statistics.flatWindows = tally[TALLY_FLAT]!;
-  statistics.featuresEvaluated = tally[TALLY_FEATURES]!;
-  statistics.accepted = tally[TALLY_ACCEPTED]!;
-  for (let k = 0; k < cascade.stages.length; k++) statistics.rejectedAtStage[k] = tally[TALLY_REJECTED + k]!;
   return { hits: hits.toRawHits(), statistics };
 }
 
-/**
- * Buffers of the live windows of one row, reused across rows and scales: the
- * table offset of each window's top-left corner, its 1/σ, and its running
- * stage score. Capacity grows to the widest row seen.
- */
-class LiveWindows {
-  bases = new Int32Array(0);
-  inverseDeviations = new Float64Array(0);
-  scores = new Float64Array(0);
-  reserve(capacity: number): void {
-    if (this.bases.length >= capacity) return;
-    this.bases = new Int32Array(capacity);
-    this.inverseDeviations = new Float64Array(capacity);
-    this.scores = new Float64Array(capacity);
-  }
-}
-
-// Slots of the work tally (a Float64Array) that scanOneScale adds to row by row;
-// rejections by stage k go to slot TALLY_REJECTED + k.
-const TALLY_WINDOWS = 0;
-const TALLY_FLAT = 1;
-const TALLY_FEATURES = 2;
-const TALLY_ACCEPTED = 3;
-const TALLY_REJECTED = 4;
-
-// The hot loop, breadth first within a row. The row's windows that are not
-// flat — and, when the first stage fits FirstStageBlock, that pass the first
-// stage, evaluated in the same loop — are gathered into compact lists (table
-// offset, 1/σ, score); then each further stage runs over the whole list one
-// weak classifier at a time, and the list is compacted to the windows that
-// pass. Every stage thus runs a tight loop with the classifier's corners and
-// coefficients in locals (evaluateWeak), with no per-window branching between
-// stages and no allocation. Decisions are
-// bit-identical to evaluating window by window: the same corners are summed in
-// the same order, the value is multiplied by the same 1/σ, and outputs are
-// added to the stage score in classifier order.
-//
-// Counters go to the typed-array tally once per row, never to object fields
-// after the loops: V8 compiles this function while its loops run (on-stack
-// replacement), and code after the loops that has not yet run when it is
-// compiled has no type feedback, so reaching it throws the compiled code away
-// (seen with --trace-deopt, once per scale).
-function scanOneScale(c: ScaledCascade, integral: IntegralImage, tally: Float64Array, hits: HitCollector, live: LiveWindows): void {
-  const { sum, squaredSum, stride } = integral;
-  const { stageEnds, thresholds, weakEnds, splitValues, belowOutputs, aboveOutputs, offsets, coefficients, step } = c;
-  const windowWidth = c.windowWidth;
-  const windowHeight = c.windowHeight;
-  const stageCount = stageEnds.length;
-  const bottomRight = windowHeight * stride + windowWidth;
-  const bottomLeft = windowHeight * stride;
-  const inverseCount = 1 / (windowWidth * windowHeight);
-  const flatVariance = FLAT_WINDOW_VARIANCE;
-  // The first stage's corners, coefficients and outputs in locals for the fused pass (zeros when unused).
-  const block = c.firstStage;
-  const fused = block !== null;
-  const blockOffsets = block?.offsets ?? new Int32Array(2 * FIRST_STAGE_CORNERS);
-  const blockCoefficients = block?.coefficients ?? new Float64Array(2 * FIRST_STAGE_CORNERS);
-  const p0 = blockOffsets[0]!, p1 = blockOffsets[1]!, p2 = blockOffsets[2]!, p3 = blockOffsets[3]!, p4 = blockOffsets[4]!, p5 = blockOffsets[5]!, p6 = blockOffsets[6]!, p7 = blockOffsets[7]!, p8 = blockOffsets[8]!;
-  const q0 = blockOffsets[9]!, q1 = blockOffsets[10]!, q2 = blockOffsets[11]!, q3 = blockOffsets[12]!, q4 = blockOffsets[13]!, q5 = blockOffsets[14]!, q6 = blockOffsets[15]!, q7 = blockOffsets[16]!, q8 = blockOffsets[17]!;
-  const a0 = blockCoefficients[0]!, a1 = blockCoefficients[1]!, a2 = blockCoefficients[2]!, a3 = blockCoefficients[3]!, a4 = blockCoefficients[4]!, a5 = blockCoefficients[5]!, a6 = blockCoefficients[6]!, a7 = blockCoefficients[7]!, a8 = blockCoefficients[8]!;
-  const b0 = blockCoefficients[9]!, b1 = blockCoefficients[10]!, b2 = blockCoefficients[11]!, b3 = blockCoefficients[12]!, b4 = blockCoefficients[13]!, b5 = blockCoefficients[14]!, b6 = blockCoefficients[15]!, b7 = blockCoefficients[16]!, b8 = blockCoefficients[17]!;
-  const split0 = block?.splitValues[0] ?? 0, below0 = block?.belowOutputs[0] ?? 0, above0 = block?.aboveOutputs[0] ?? 0;
-  const split1 = block?.splitValues[1] ?? 0, below1 = block?.belowOutputs[1] ?? 0, above1 = block?.aboveOutputs[1] ?? 0;
-  const threshold0 = block?.threshold ?? 0;
-  const firstStageWeakCount = block?.weakCount ?? 0;
-  const lastX = integral.width - windowWidth;
-  const lastY = integral.height - windowHeight;
-  const columns = Math.floor(lastX / step) + 1;
-  live.reserve(columns);
-  const { bases, inverseDeviations, scores } = live;
-  for (let y = 0; y <= lastY; y += step) {
-    const row = y * stride;
-    // σ of every window of the row from the two tables (var = E[I²] − E[I]²);
-    // flat windows are counted and left out of the list.
-    let count = 0;
-    let stage = 0;
-    if (fused) {
-      // The fused pass: σ and the whole first stage for each window in one
-      // loop, listing only the windows that pass (with their margin). Most
-      // windows die in the first stage, so listing every window, reading the
-      // list back once per classifier and compacting it cost more than the
-      // stage itself. Arithmetic is the breadth-first path's, operation for
-      // operation (see FirstStageBlock on the padding), score (0 + out₀) + out₁.
-      let nonFlat = 0;
-      for (let base = row, lastBase = row + lastX; base <= lastBase; base += step) {
-        const total = sum[base + bottomRight]! - sum[base + bottomLeft]! - sum[base + windowWidth]! + sum[base]!;
-        const totalSquared = squaredSum[base + bottomRight]! - squaredSum[base + bottomLeft]! - squaredSum[base + windowWidth]! + squaredSum[base]!;
-        const mean = total * inverseCount;
-        const variance = totalSquared * inverseCount - mean * mean;
-        if (variance < flatVariance) continue;
-        nonFlat++;
-        const inverseDeviation = 1 / Math.sqrt(variance);
-        const value0 = a0 * sum[base + p0]! + a1 * sum[base + p1]! + a2 * sum[base + p2]! + a3 * sum[base + p3]! + a4 * sum[base + p4]! + a5 * sum[base + p5]! + a6 * sum[base + p6]! + a7 * sum[base + p7]! + a8 * sum[base + p8]!;
-        const value1 = b0 * sum[base + q0]! + b1 * sum[base + q1]! + b2 * sum[base + q2]! + b3 * sum[base + q3]! + b4 * sum[base + q4]! + b5 * sum[base + q5]! + b6 * sum[base + q6]! + b7 * sum[base + q7]! + b8 * sum[base + q8]!;
-        const margin = ((0 + (value0 * inverseDeviation < split0 ? below0 : above0)) + (value1 * inverseDeviation < split1 ? below1 : above1)) - threshold0;
-        if (margin < 0) continue;
-        bases[count] = base;
-        inverseDeviations[count] = inverseDeviation;
-        scores[count] = margin;
-        count++;
-      }
-      tally[TALLY_WINDOWS]! += columns;
-      tally[TALLY_FLAT]! += columns - nonFlat;
-      tally[TALLY_FEATURES]! += nonFlat * firstStageWeakCount;
-      tally[TALLY_REJECTED]! += nonFlat - count;
-      stage = 1;
-    } else {
-      for (let base = row, lastBase = row + lastX; base <= lastBase; base += step) {
-        const total = sum[base + bottomRight]! - sum[base + bottomLeft]! - sum[base + windowWidth]! + sum[base]!;
-        const totalSquared = squaredSum[base + bottomRight]! - squaredSum[base + bottomLeft]! - squaredSum[base + windowWidth]! + squaredSum[base]!;
-        const mean = total * inverseCount;
-        const variance = totalSquared * inverseCount - mean * mean;
-        if (variance < flatVariance) continue;
-        bases[count] = base;
-        inverseDeviations[count] = 1 / Math.sqrt(variance);
-        count++;
-      }
-      tally[TALLY_WINDOWS]! += columns;
-      tally[TALLY_FLAT]! += columns - count;
-    }
-    let weak = stage === 0 ? 0 : stageEnds[0]!;
-    let corner = weak === 0 ? 0 : weakEnds[weak - 1]!;
-    for (; stage < stageCount && count > 0; stage++) {
-      const weakEnd = stageEnds[stage]!;
-      scores.fill(0, 0, count);
-      tally[TALLY_FEATURES]! += count * (weakEnd - weak);
-      for (; weak < weakEnd; weak++) {
-        const cornerEnd = weakEnds[weak]!;
-        evaluateWeak(sum, bases, inverseDeviations, scores, count, offsets, coefficients, corner, cornerEnd, splitValues[weak]!, belowOutputs[weak]!, aboveOutputs[weak]!);
-        corner = cornerEnd;
-      }
-      // Keep the windows whose margin Σ outputs − threshold is ≥ 0, in order.
-      const threshold = thresholds[stage]!;
-      let kept = 0;
-      for (let i = 0; i < count; i++) {
-        const margin = scores[i]! - threshold;
-        if (margin < 0) continue;
-        bases[kept] = bases[i]!;
-        inverseDeviations[kept] = inverseDeviations[i]!;
-        scores[kept] = margin;
-        kept++;
-      }
-      tally[TALLY_REJECTED + stage]! += count - kept;
-      count = kept;
-    }
-    // What is left passed every stage; scores hold the last stage's margins (or 0 without stages).
-    if (stageCount === 0) scores.fill(0, 0, count);
-    tally[TALLY_ACCEPTED]! += count;
-    for (let i = 0; i < count; i++) hits.add(bases[i]! - row, y, windowWidth, windowHeight, scores[i]!);
-  }
-}
-
-/**
- * Adds one weak classifier's output to the score of each of the first `count`
- * live windows: value = Σ coefficient · table[base + offset] over the corners
- * start..end−1, then belowOutput if value · (1/σ) < splitValue, else aboveOutput.
- * The common corner counts of the five basic kinds (6 for two cells, 8 for
- * three, 9 for four) get their offsets and coefficients in locals, which
- * removes two array reads per corner from the innermost loop; the sum is
- * accumulated left to right in corner order, exactly as the generic loop does,
- * so results are bit-identical.
- */
-function evaluateWeak(
-  sum: Float64Array, bases: Int32Array, inverseDeviations: Float64Array, scores: Float64Array, count: number,
-  offsets: Int32Array, coefficients: Float64Array, start: number, end: number, split: number, below: number, above: number,
-): void {
-  const corners = end - start;
-  if (corners === 6 || corners === 8 || corners === 9) {
-    const o0 = offsets[start]!, o1 = offsets[start + 1]!, o2 = offsets[start + 2]!, o3 = offsets[start + 3]!, o4 = offsets[start + 4]!, o5 = offsets[start + 5]!;
-    const c0 = coefficients[start]!, c1 = coefficients[start + 1]!, c2 = coefficients[start + 2]!, c3 = coefficients[start + 3]!, c4 = coefficients[start + 4]!, c5 = coefficients[start + 5]!;
-    if (corners === 6) {
-      for (let i = 0; i < count; i++) {
-        const base = bases[i]!;
-        const value = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]!;
-        scores[i]! += value * inverseDeviations[i]! < split ? below : above;
-      }
-      return;
-    }
-    const o6 = offsets[start + 6]!, o7 = offsets[start + 7]!;
-    const c6 = coefficients[start + 6]!, c7 = coefficients[start + 7]!;
-    if (corners === 8) {
-      for (let i = 0; i < count; i++) {
-        const base = bases[i]!;
-        const value = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]! + c6 * sum[base + o6]! + c7 * sum[base + o7]!;
-        scores[i]! += value * inverseDeviations[i]! < split ? below : above;
-      }
-      return;
-    }
-    const o8 = offsets[start + 8]!;
-    const c8 = coefficients[start + 8]!;
-    for (let i = 0; i < count; i++) {
-      const base = bases[i]!;
-      const value = c0 * sum[base + o0]! + c1 * sum[base + o1]! + c2 * sum[base + o2]! + c3 * sum[base + o3]! + c4 * sum[base + o4]! + c5 * sum[base + o5]! + c6 * sum[base + o6]! + c7 * sum[base + o7]! + c8 * sum[base + o8]!;
-      scores[i]! += value * inverseDeviations[i]! < split ? below : above;
-    }
-    return;
-  }
-  for (let i = 0; i < count; i++) {
-    const base = bases[i]!;
-    let value = 0;
-    for (let k = start; k < end; k++) value += coefficients[k]! * sum[base + offsets[k]!]!;
-    scores[i]! += value * inverseDeviations[i]! < split ? below : above;
+/** Scans every row of one scale in the kernel and collects the accepted windows as hits. */
+function scanOneScale(c: ScaledCascade, kernel: KernelImage, integral: IntegralImage, hits: HitCollector): void {
+  kernel.setScale(c, FLAT_WINDOW_VARIANCE);
+  const lastX = integral.width - c.windowWidth;
+  const lastY = integral.height - c.windowHeight;
+  for (let y = 0; y <= lastY; y += c.step) {
+    const row = y * integral.stride;
+    const count = kernel.scanRow(row, row + lastX, c.step);
+    if (count === 0) continue;
+    const { addresses, tableAddress, scores } = kernel.acceptedWindows(count);
+    for (let i = 0; i < count; i++) hits.add((addresses[i]! - tableAddress) / 8 - row, y, c.windowWidth, c.windowHeight, scores[i]!);
   }
 }
