@@ -37,27 +37,26 @@ interface KernelGlobal {
 interface KernelExports {
   readonly memory: KernelMemory;
   scanRow(firstWindow: number, lastWindow: number, step: number): number;
-  readonly sumAt: KernelGlobal;
   readonly squaredDistance: KernelGlobal;
   readonly windowsAt: KernelGlobal;
   readonly inverseDeviationsAt: KernelGlobal;
   readonly scoresAt: KernelGlobal;
   readonly tallyAt: KernelGlobal;
   readonly stageCount: KernelGlobal;
-  readonly stageEndsAt: KernelGlobal;
-  readonly thresholdsAt: KernelGlobal;
-  readonly weakEndsAt: KernelGlobal;
-  readonly splitValuesAt: KernelGlobal;
-  readonly belowOutputsAt: KernelGlobal;
-  readonly aboveOutputsAt: KernelGlobal;
-  readonly offsetsAt: KernelGlobal;
-  readonly coefficientsAt: KernelGlobal;
+  readonly stagesAt: KernelGlobal;
+  readonly weaksAt: KernelGlobal;
+  readonly cornersAt: KernelGlobal;
   readonly bottomRight: KernelGlobal;
   readonly bottomLeft: KernelGlobal;
   readonly topRight: KernelGlobal;
   readonly inverseCount: KernelGlobal;
   readonly flatVariance: KernelGlobal;
 }
+
+// Record sizes of scan-kernel.wat's cascade layout, in bytes.
+const STAGE_RECORD = 16;
+const WEAK_RECORD = 32;
+const CORNER_RECORD = 16;
 
 // Tally slots (f64) that scanRow adds to; rejections by stage k go to TALLY_REJECTED + k.
 export const TALLY_WINDOWS = 0;
@@ -108,7 +107,9 @@ export class KernelImage {
   private readonly sumAt: number;
   private readonly stride: number;
   private readonly stageCapacity: number;
-  private readonly layout: { stageEnds: number; thresholds: number; weakEnds: number; splitValues: number; belowOutputs: number; aboveOutputs: number; offsets: number; coefficients: number };
+  private readonly stagesAt: number;
+  private readonly weaksAt: number;
+  private readonly cornersAt: number;
 
   constructor(exports: KernelExports, integral: IntegralImage, capacity: CascadeCapacity, columns: number) {
     this.exports = exports;
@@ -121,18 +122,11 @@ export class KernelImage {
       return start;
     };
     const tallyAt = take(8 * (TALLY_REJECTED + capacity.stages));
-    this.layout = {
-      stageEnds: take(4 * capacity.stages),
-      thresholds: take(8 * capacity.stages),
-      weakEnds: take(4 * capacity.weakClassifiers),
-      splitValues: take(8 * capacity.weakClassifiers),
-      belowOutputs: take(8 * capacity.weakClassifiers),
-      aboveOutputs: take(8 * capacity.weakClassifiers),
-      offsets: take(4 * capacity.corners),
-      coefficients: take(8 * capacity.corners),
-    };
-    // One spare slot (the kernel repeats the last window there) and one for a pair's second lane.
-    const listSlots = columns + 2;
+    this.stagesAt = take(STAGE_RECORD * capacity.stages);
+    this.weaksAt = take(WEAK_RECORD * capacity.weakClassifiers);
+    this.cornersAt = take(CORNER_RECORD * capacity.corners);
+    // Past the widest row, the kernel needs three spare slots (it reads windows four at a time).
+    const listSlots = columns + 4;
     const windowsAt = take(4 * listSlots);
     const inverseDeviationsAt = take(8 * listSlots);
     const scoresAt = take(8 * listSlots);
@@ -151,36 +145,44 @@ export class KernelImage {
     new Float64Array(buffer, this.sumAt, entries).set(integral.sum);
     new Float64Array(buffer, squaredAt, entries).set(integral.squaredSum);
     new Float64Array(buffer, tallyAt, TALLY_REJECTED + capacity.stages).fill(0);
-    exports.sumAt.value = this.sumAt;
     exports.squaredDistance.value = squaredAt - this.sumAt;
     exports.windowsAt.value = windowsAt;
     exports.inverseDeviationsAt.value = inverseDeviationsAt;
     exports.scoresAt.value = scoresAt;
     exports.tallyAt.value = tallyAt;
-    exports.stageEndsAt.value = this.layout.stageEnds;
-    exports.thresholdsAt.value = this.layout.thresholds;
-    exports.weakEndsAt.value = this.layout.weakEnds;
-    exports.splitValuesAt.value = this.layout.splitValues;
-    exports.belowOutputsAt.value = this.layout.belowOutputs;
-    exports.aboveOutputsAt.value = this.layout.aboveOutputs;
-    exports.offsetsAt.value = this.layout.offsets;
-    exports.coefficientsAt.value = this.layout.coefficients;
+    exports.stagesAt.value = this.stagesAt;
+    exports.weaksAt.value = this.weaksAt;
+    exports.cornersAt.value = this.cornersAt;
   }
 
-  /** Writes the cascade compiled for one scale (it must fit the capacity given at load). */
+  /** Writes the cascade compiled for one scale as the kernel's records (it must fit the capacity given at load). */
   setScale(c: ScaledCascade, flatVariance: number): void {
     const buffer = this.exports.memory.buffer;
-    const { layout, exports, stride } = this;
-    new Int32Array(buffer, layout.stageEnds, c.stageEnds.length).set(c.stageEnds);
-    new Float64Array(buffer, layout.thresholds, c.thresholds.length).set(c.thresholds);
-    new Int32Array(buffer, layout.weakEnds, c.weakEnds.length).set(c.weakEnds);
-    new Float64Array(buffer, layout.splitValues, c.splitValues.length).set(c.splitValues);
-    new Float64Array(buffer, layout.belowOutputs, c.belowOutputs.length).set(c.belowOutputs);
-    new Float64Array(buffer, layout.aboveOutputs, c.aboveOutputs.length).set(c.aboveOutputs);
-    const offsets = new Int32Array(buffer, layout.offsets, c.offsets.length);
-    for (let k = 0; k < c.offsets.length; k++) offsets[k] = 8 * c.offsets[k]!;
-    new Float64Array(buffer, layout.coefficients, c.coefficients.length).set(c.coefficients);
-    exports.stageCount.value = c.stageEnds.length;
+    const { exports, stride } = this;
+    const stageCount = c.stageEnds.length;
+    const weakCount = c.weakEnds.length;
+    const cornerCount = c.offsets.length;
+    const stageFloats = new Float64Array(buffer, this.stagesAt, (STAGE_RECORD / 8) * stageCount);
+    const stageInts = new Int32Array(buffer, this.stagesAt, (STAGE_RECORD / 4) * stageCount);
+    for (let k = 0; k < stageCount; k++) {
+      stageFloats[2 * k] = c.thresholds[k]!;
+      stageInts[4 * k + 2] = this.weaksAt + WEAK_RECORD * c.stageEnds[k]!;
+    }
+    const weakFloats = new Float64Array(buffer, this.weaksAt, (WEAK_RECORD / 8) * weakCount);
+    const weakInts = new Int32Array(buffer, this.weaksAt, (WEAK_RECORD / 4) * weakCount);
+    for (let w = 0; w < weakCount; w++) {
+      weakFloats[4 * w] = c.splitValues[w]!;
+      weakFloats[4 * w + 1] = c.belowOutputs[w]!;
+      weakFloats[4 * w + 2] = c.aboveOutputs[w]!;
+      weakInts[8 * w + 6] = this.cornersAt + CORNER_RECORD * c.weakEnds[w]!;
+    }
+    const cornerFloats = new Float64Array(buffer, this.cornersAt, (CORNER_RECORD / 8) * cornerCount);
+    const cornerInts = new Int32Array(buffer, this.cornersAt, (CORNER_RECORD / 4) * cornerCount);
+    for (let k = 0; k < cornerCount; k++) {
+      cornerInts[4 * k] = 8 * c.offsets[k]!;
+      cornerFloats[2 * k + 1] = c.coefficients[k]!;
+    }
+    exports.stageCount.value = stageCount;
     exports.bottomRight.value = 8 * (c.windowHeight * stride + c.windowWidth);
     exports.bottomLeft.value = 8 * (c.windowHeight * stride);
     exports.topRight.value = 8 * c.windowWidth;
