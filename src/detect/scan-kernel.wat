@@ -60,7 +60,7 @@
     (local $window0 i32) (local $window1 i32) (local $window2 i32) (local $window3 i32) (local $second i32)
     (local $offset i32) (local $count i32) (local $kept i32) (local $index i32) (local $windows i32)
     (local $stage i32) (local $stageAt i32) (local $stageWeaks i32) (local $stageCorners i32)
-    (local $weak i32) (local $weaksEnd i32) (local $corner i32) (local $cornersEnd i32) (local $lastSlot i32)
+    (local $adjacent i32) (local $weak i32) (local $weaksEnd i32) (local $corner i32) (local $cornersEnd i32) (local $lastSlot i32)
     (local $total v128) (local $totalSquared v128) (local $mean v128) (local $variance v128) (local $keep v128)
     (local $coefficient v128) (local $inverseA v128) (local $inverseB v128) (local $valueA v128) (local $valueB v128)
     (local $scoreA v128) (local $scoreB v128) (local $below v128) (local $above v128) (local $split v128)
@@ -157,6 +157,13 @@
             (local.set $offset (i32.add (global.get $inverseDeviationsAt) (i32.shl (local.get $index) (i32.const 3))))
             (local.set $inverseA (v128.load (local.get $offset)))
             (local.set $inverseB (v128.load offset=16 (local.get $offset)))
+            ;; (the spare slots repeat a window, so all three gaps are checked)
+            (local.set $adjacent
+              (i32.and
+                (i32.and
+                  (i32.eq (i32.sub (local.get $window1) (local.get $window0)) (i32.const 8))
+                  (i32.eq (i32.sub (local.get $window2) (local.get $window1)) (i32.const 8)))
+                (i32.eq (i32.sub (local.get $window3) (local.get $window2)) (i32.const 8))))
             (local.set $scoreA (f64x2.splat (f64.const 0)))
             (local.set $scoreB (f64x2.splat (f64.const 0)))
             (local.set $weak (local.get $stageWeaks))
@@ -170,6 +177,18 @@
               (local.set $valueB (f64x2.splat (f64.const 0)))
               (block $cornersDone
               (br_if $cornersDone (i32.ge_u (local.get $corner) (local.get $cornersEnd)))
+              (if (local.get $adjacent)
+                (then
+                  ;; Four adjacent windows (stage 0 at a one-pixel shift, mostly):
+                  ;; each corner's four entries are consecutive, two plain loads.
+                  (loop $nextAdjacentCorner
+                    (local.set $offset (i32.add (local.get $window0) (i32.load (local.get $corner))))
+                    (local.set $coefficient (v128.load64_splat offset=8 (local.get $corner)))
+                    (local.set $valueA (f64x2.add (local.get $valueA) (f64x2.mul (local.get $coefficient) (v128.load (local.get $offset)))))
+                    (local.set $valueB (f64x2.add (local.get $valueB) (f64x2.mul (local.get $coefficient) (v128.load offset=16 (local.get $offset)))))
+                    (local.set $corner (i32.add (local.get $corner) (i32.const 16)))
+                    (br_if $nextAdjacentCorner (i32.lt_u (local.get $corner) (local.get $cornersEnd)))))
+                (else
               (loop $nextCorner
                 (local.set $offset (i32.load (local.get $corner)))
                 (local.set $coefficient (v128.load64_splat offset=8 (local.get $corner)))
@@ -184,7 +203,7 @@
                       (v128.load64_lane 1 (i32.add (local.get $window3) (local.get $offset))
                         (v128.load64_zero (i32.add (local.get $window2) (local.get $offset)))))))
                 (local.set $corner (i32.add (local.get $corner) (i32.const 16)))
-                (br_if $nextCorner (i32.lt_u (local.get $corner) (local.get $cornersEnd)))))
+                (br_if $nextCorner (i32.lt_u (local.get $corner) (local.get $cornersEnd)))))))
               (local.set $split (v128.load64_splat (local.get $weak)))
               (local.set $below (v128.load64_splat offset=8 (local.get $weak)))
               (local.set $above (v128.load64_splat offset=16 (local.get $weak)))
