@@ -65,6 +65,19 @@
     (local $coefficient v128) (local $inverseA v128) (local $inverseB v128) (local $valueA v128) (local $valueB v128)
     (local $scoreA v128) (local $scoreB v128) (local $below v128) (local $above v128) (local $split v128)
     (local $threshold v128) (local $keepA v128) (local $keepB v128)
+    (local $bottomRight i32) (local $bottomLeft i32) (local $topRight i32) (local $squaredDistance i32)
+    (local $windowsAt i32) (local $inverseDeviationsAt i32) (local $scoresAt i32)
+    (local $inverseCount v128) (local $flatVariance v128)
+    ;; Globals into locals once per row (the loops then keep them in registers).
+    (local.set $bottomRight (global.get $bottomRight))
+    (local.set $bottomLeft (global.get $bottomLeft))
+    (local.set $topRight (global.get $topRight))
+    (local.set $squaredDistance (global.get $squaredDistance))
+    (local.set $windowsAt (global.get $windowsAt))
+    (local.set $inverseDeviationsAt (global.get $inverseDeviationsAt))
+    (local.set $scoresAt (global.get $scoresAt))
+    (local.set $inverseCount (f64x2.splat (global.get $inverseCount)))
+    (local.set $flatVariance (f64x2.splat (global.get $flatVariance)))
 
     ;; σ of every window of the row, two at a time; windows that are not flat
     ;; are listed with their 1/σ.
@@ -72,49 +85,73 @@
     (block $rowDone
       (loop $nextPair
         (br_if $rowDone (i32.gt_u (local.get $window0) (local.get $lastWindow)))
-        ;; The second lane takes the next window, or repeats the first (and is dropped) at the row's end.
-        (local.set $window1 (i32.add (local.get $window0) (local.get $step)))
-        (local.set $second (i32.le_u (local.get $window1) (local.get $lastWindow)))
-        (local.set $window1 (select (local.get $window1) (local.get $window0) (local.get $second)))
-        (local.set $windows (i32.add (local.get $windows) (i32.add (i32.const 1) (local.get $second))))
-        (local.set $total
-          (f64x2.add
-            (f64x2.sub
-              (f64x2.sub
-                (v128.load64_lane 1 (i32.add (local.get $window1) (global.get $bottomRight))
-                  (v128.load64_zero (i32.add (local.get $window0) (global.get $bottomRight))))
-                (v128.load64_lane 1 (i32.add (local.get $window1) (global.get $bottomLeft))
-                  (v128.load64_zero (i32.add (local.get $window0) (global.get $bottomLeft)))))
-              (v128.load64_lane 1 (i32.add (local.get $window1) (global.get $topRight))
-                (v128.load64_zero (i32.add (local.get $window0) (global.get $topRight)))))
-            (v128.load64_lane 1 (local.get $window1) (v128.load64_zero (local.get $window0)))))
-        (local.set $offset (global.get $squaredDistance))
-        (local.set $totalSquared
-          (f64x2.add
-            (f64x2.sub
-              (f64x2.sub
-                (v128.load64_lane 1 (i32.add (local.get $window1) (i32.add (local.get $offset) (global.get $bottomRight)))
-                  (v128.load64_zero (i32.add (local.get $window0) (i32.add (local.get $offset) (global.get $bottomRight)))))
-                (v128.load64_lane 1 (i32.add (local.get $window1) (i32.add (local.get $offset) (global.get $bottomLeft)))
-                  (v128.load64_zero (i32.add (local.get $window0) (i32.add (local.get $offset) (global.get $bottomLeft))))))
-              (v128.load64_lane 1 (i32.add (local.get $window1) (i32.add (local.get $offset) (global.get $topRight)))
-                (v128.load64_zero (i32.add (local.get $window0) (i32.add (local.get $offset) (global.get $topRight))))))
-            (v128.load64_lane 1 (i32.add (local.get $window1) (local.get $offset))
-              (v128.load64_zero (i32.add (local.get $window0) (local.get $offset))))))
-        (local.set $mean (f64x2.mul (local.get $total) (f64x2.splat (global.get $inverseCount))))
+        (if (i32.and (i32.eq (local.get $step) (i32.const 8)) (i32.le_u (i32.add (local.get $window0) (i32.const 8)) (local.get $lastWindow)))
+          (then
+            ;; Two adjacent windows (a one-pixel shift): each corner's two entries are consecutive.
+            (local.set $window1 (i32.add (local.get $window0) (i32.const 8)))
+            (local.set $second (i32.const 1))
+            (local.set $windows (i32.add (local.get $windows) (i32.const 2)))
+            (local.set $total
+              (f64x2.add
+                (f64x2.sub
+                  (f64x2.sub
+                    (v128.load (i32.add (local.get $window0) (local.get $bottomRight)))
+                    (v128.load (i32.add (local.get $window0) (local.get $bottomLeft))))
+                  (v128.load (i32.add (local.get $window0) (local.get $topRight))))
+                (v128.load (local.get $window0))))
+            (local.set $offset (i32.add (local.get $window0) (local.get $squaredDistance)))
+            (local.set $totalSquared
+              (f64x2.add
+                (f64x2.sub
+                  (f64x2.sub
+                    (v128.load (i32.add (local.get $offset) (local.get $bottomRight)))
+                    (v128.load (i32.add (local.get $offset) (local.get $bottomLeft))))
+                  (v128.load (i32.add (local.get $offset) (local.get $topRight))))
+                (v128.load (local.get $offset)))))
+          (else
+            ;; The second lane takes the next window, or repeats the first (and is dropped) at the row's end.
+            (local.set $window1 (i32.add (local.get $window0) (local.get $step)))
+            (local.set $second (i32.le_u (local.get $window1) (local.get $lastWindow)))
+            (local.set $window1 (select (local.get $window1) (local.get $window0) (local.get $second)))
+            (local.set $windows (i32.add (local.get $windows) (i32.add (i32.const 1) (local.get $second))))
+            (local.set $total
+              (f64x2.add
+                (f64x2.sub
+                  (f64x2.sub
+                    (v128.load64_lane 1 (i32.add (local.get $window1) (local.get $bottomRight))
+                      (v128.load64_zero (i32.add (local.get $window0) (local.get $bottomRight))))
+                    (v128.load64_lane 1 (i32.add (local.get $window1) (local.get $bottomLeft))
+                      (v128.load64_zero (i32.add (local.get $window0) (local.get $bottomLeft)))))
+                  (v128.load64_lane 1 (i32.add (local.get $window1) (local.get $topRight))
+                    (v128.load64_zero (i32.add (local.get $window0) (local.get $topRight)))))
+                (v128.load64_lane 1 (local.get $window1) (v128.load64_zero (local.get $window0)))))
+            (local.set $offset (local.get $squaredDistance))
+            (local.set $totalSquared
+              (f64x2.add
+                (f64x2.sub
+                  (f64x2.sub
+                    (v128.load64_lane 1 (i32.add (local.get $window1) (i32.add (local.get $offset) (local.get $bottomRight)))
+                      (v128.load64_zero (i32.add (local.get $window0) (i32.add (local.get $offset) (local.get $bottomRight)))))
+                    (v128.load64_lane 1 (i32.add (local.get $window1) (i32.add (local.get $offset) (local.get $bottomLeft)))
+                      (v128.load64_zero (i32.add (local.get $window0) (i32.add (local.get $offset) (local.get $bottomLeft))))))
+                  (v128.load64_lane 1 (i32.add (local.get $window1) (i32.add (local.get $offset) (local.get $topRight)))
+                    (v128.load64_zero (i32.add (local.get $window0) (i32.add (local.get $offset) (local.get $topRight))))))
+                (v128.load64_lane 1 (i32.add (local.get $window1) (local.get $offset))
+                  (v128.load64_zero (i32.add (local.get $window0) (local.get $offset))))))))
+        (local.set $mean (f64x2.mul (local.get $total) (local.get $inverseCount)))
         (local.set $variance
           (f64x2.sub
-            (f64x2.mul (local.get $totalSquared) (f64x2.splat (global.get $inverseCount)))
+            (f64x2.mul (local.get $totalSquared) (local.get $inverseCount))
             (f64x2.mul (local.get $mean) (local.get $mean))))
         ;; Not flat: variance ≥ the flat limit. A flat lane's 1/σ may be huge or NaN; it is not listed.
-        (local.set $keep (v128.not (f64x2.lt (local.get $variance) (f64x2.splat (global.get $flatVariance)))))
+        (local.set $keep (v128.not (f64x2.lt (local.get $variance) (local.get $flatVariance))))
         ;; Listed either way, the slot taken only when kept: no branch to mispredict.
         (local.set $total (f64x2.div (f64x2.splat (f64.const 1)) (f64x2.sqrt (local.get $variance))))
-        (i32.store (i32.add (global.get $windowsAt) (i32.shl (local.get $count) (i32.const 2))) (local.get $window0))
-        (v128.store64_lane 0 (i32.add (global.get $inverseDeviationsAt) (i32.shl (local.get $count) (i32.const 3))) (local.get $total))
+        (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $count) (i32.const 2))) (local.get $window0))
+        (v128.store64_lane 0 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $count) (i32.const 3))) (local.get $total))
         (local.set $count (i32.add (local.get $count) (i32.and (i32.wrap_i64 (i64x2.extract_lane 0 (local.get $keep))) (i32.const 1))))
-        (i32.store (i32.add (global.get $windowsAt) (i32.shl (local.get $count) (i32.const 2))) (local.get $window1))
-        (v128.store64_lane 1 (i32.add (global.get $inverseDeviationsAt) (i32.shl (local.get $count) (i32.const 3))) (local.get $total))
+        (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $count) (i32.const 2))) (local.get $window1))
+        (v128.store64_lane 1 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $count) (i32.const 3))) (local.get $total))
         (local.set $count (i32.add (local.get $count) (i32.and (i32.wrap_i64 (i64x2.extract_lane 1 (local.get $keep))) (local.get $second))))
         (local.set $window0 (i32.add (local.get $window1) (local.get $step)))
         (br $nextPair)))
@@ -139,7 +176,7 @@
         (local.set $threshold (v128.load64_splat (local.get $stageAt)))
         (local.set $weaksEnd (i32.load offset=8 (local.get $stageAt)))
         ;; The spare slots repeat the last window, so a group past the end reads real windows.
-        (local.set $lastSlot (i32.add (global.get $windowsAt) (i32.shl (i32.sub (local.get $count) (i32.const 1)) (i32.const 2))))
+        (local.set $lastSlot (i32.add (local.get $windowsAt) (i32.shl (i32.sub (local.get $count) (i32.const 1)) (i32.const 2))))
         (local.set $window3 (i32.load (local.get $lastSlot)))
         (i32.store offset=4 (local.get $lastSlot) (local.get $window3))
         (i32.store offset=8 (local.get $lastSlot) (local.get $window3))
@@ -149,12 +186,12 @@
         (block $groupsDone
           (loop $nextGroup
             (br_if $groupsDone (i32.ge_u (local.get $index) (local.get $count)))
-            (local.set $offset (i32.add (global.get $windowsAt) (i32.shl (local.get $index) (i32.const 2))))
+            (local.set $offset (i32.add (local.get $windowsAt) (i32.shl (local.get $index) (i32.const 2))))
             (local.set $window0 (i32.load (local.get $offset)))
             (local.set $window1 (i32.load offset=4 (local.get $offset)))
             (local.set $window2 (i32.load offset=8 (local.get $offset)))
             (local.set $window3 (i32.load offset=12 (local.get $offset)))
-            (local.set $offset (i32.add (global.get $inverseDeviationsAt) (i32.shl (local.get $index) (i32.const 3))))
+            (local.set $offset (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $index) (i32.const 3))))
             (local.set $inverseA (v128.load (local.get $offset)))
             (local.set $inverseB (v128.load offset=16 (local.get $offset)))
             ;; (the spare slots repeat a window, so all three gaps are checked)
@@ -223,24 +260,24 @@
             (local.set $keepB (v128.not (f64x2.lt (local.get $scoreB) (f64x2.splat (f64.const 0)))))
             ;; Write all four at `kept`, each taking its slot only when kept and
             ;; inside the list (index + lane < count).
-            (i32.store (i32.add (global.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window0))
-            (v128.store64_lane 0 (i32.add (global.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseA))
-            (v128.store64_lane 0 (i32.add (global.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreA))
+            (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window0))
+            (v128.store64_lane 0 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseA))
+            (v128.store64_lane 0 (i32.add (local.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreA))
             (local.set $kept (i32.add (local.get $kept)
               (i32.and (i32.wrap_i64 (i64x2.extract_lane 0 (local.get $keepA))) (i32.const 1))))
-            (i32.store (i32.add (global.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window1))
-            (v128.store64_lane 1 (i32.add (global.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseA))
-            (v128.store64_lane 1 (i32.add (global.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreA))
+            (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window1))
+            (v128.store64_lane 1 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseA))
+            (v128.store64_lane 1 (i32.add (local.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreA))
             (local.set $kept (i32.add (local.get $kept)
               (i32.and (i32.wrap_i64 (i64x2.extract_lane 1 (local.get $keepA))) (i32.lt_u (i32.add (local.get $index) (i32.const 1)) (local.get $count)))))
-            (i32.store (i32.add (global.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window2))
-            (v128.store64_lane 0 (i32.add (global.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseB))
-            (v128.store64_lane 0 (i32.add (global.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreB))
+            (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window2))
+            (v128.store64_lane 0 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseB))
+            (v128.store64_lane 0 (i32.add (local.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreB))
             (local.set $kept (i32.add (local.get $kept)
               (i32.and (i32.wrap_i64 (i64x2.extract_lane 0 (local.get $keepB))) (i32.lt_u (i32.add (local.get $index) (i32.const 2)) (local.get $count)))))
-            (i32.store (i32.add (global.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window3))
-            (v128.store64_lane 1 (i32.add (global.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseB))
-            (v128.store64_lane 1 (i32.add (global.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreB))
+            (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window3))
+            (v128.store64_lane 1 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseB))
+            (v128.store64_lane 1 (i32.add (local.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreB))
             (local.set $kept (i32.add (local.get $kept)
               (i32.and (i32.wrap_i64 (i64x2.extract_lane 1 (local.get $keepB))) (i32.lt_u (i32.add (local.get $index) (i32.const 3)) (local.get $count)))))
             (local.set $index (i32.add (local.get $index) (i32.const 4)))
@@ -260,7 +297,7 @@
     (if (i32.eqz (global.get $stageCount))
       (then
         ;; Without stages every listed window is accepted with score 0.
-        (memory.fill (global.get $scoresAt) (i32.const 0) (i32.shl (local.get $count) (i32.const 3)))))
+        (memory.fill (local.get $scoresAt) (i32.const 0) (i32.shl (local.get $count) (i32.const 3)))))
     (call $addToTally (i32.const 3) (f64.convert_i32_u (local.get $count)))
     (local.get $count))
 )
