@@ -66,6 +66,7 @@ export const TALLY_ACCEPTED = 3;
 export const TALLY_REJECTED = 4;
 
 const PAGE_BYTES = 65536;
+const TABLE_PADDING = 32;
 // WebAssembly memory is 32-bit: at most 65,536 pages of 64 KiB.
 const MAX_PAGES = 65536;
 // An instance whose memory grew past this for one image is dropped after it,
@@ -132,7 +133,9 @@ export class KernelImage {
     const scoresAt = take(8 * listSlots);
     const entries = integral.sum.length;
     this.sumAt = take(8 * entries);
-    const squaredAt = take(8 * entries);
+    // Four adjacent windows at the end of the last row read up to three entries
+    // past the table (their lanes are dropped): the padding keeps that in memory.
+    const squaredAt = take(8 * entries + TABLE_PADDING);
     const needed = at;
     const pages = Math.ceil(needed / PAGE_BYTES);
     if (pages > MAX_PAGES) {

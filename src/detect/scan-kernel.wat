@@ -56,11 +56,26 @@
   ;; addresses, step in bytes) of one row through every stage. Leaves the
   ;; accepted windows in the live list (address, 1/σ, last stage's margin, or 0
   ;; without stages) and returns how many there are. Adds to the tally.
+  ;;
+  ;; Windows go four at a time (two f64x2 halves, A and B) through each stage:
+  ;; the score is Σ outputs from 0 in classifier order; a classifier's value is
+  ;; Σ coefficient · entry over its corners from 0 in corner order, and it adds
+  ;; belowOutput when value · (1/σ) < splitValue, else aboveOutput. A window
+  ;; passes when score − threshold ≥ 0, and that margin becomes its score.
+  ;;
+  ;; Stage 0 of a row at a one-pixel shift takes its windows straight from the
+  ;; row, four adjacent ones at a time, computing σ on the way (flat windows
+  ;; fail). Other rows first list their windows that are not flat, with 1/σ,
+  ;; two at a time. Every other stage reads the list that the previous stage
+  ;; left and compacts it in place (a group is read before any of its slots
+  ;; can be written).
   (func (export "scanRow") (param $firstWindow i32) (param $lastWindow i32) (param $step i32) (result i32)
     (local $window0 i32) (local $window1 i32) (local $window2 i32) (local $window3 i32) (local $second i32)
-    (local $offset i32) (local $count i32) (local $kept i32) (local $index i32) (local $windows i32)
+    (local $take0 i32) (local $take1 i32) (local $take2 i32) (local $take3 i32)
+    (local $fromRow i32) (local $adjacent i32) (local $listed i32)
+    (local $offset i32) (local $count i32) (local $kept i32) (local $index i32) (local $windows i32) (local $nonFlat i32)
     (local $stage i32) (local $stageAt i32) (local $stageWeaks i32) (local $stageCorners i32)
-    (local $adjacent i32) (local $weak i32) (local $weaksEnd i32) (local $corner i32) (local $cornersEnd i32) (local $lastSlot i32)
+    (local $weak i32) (local $weaksEnd i32) (local $corner i32) (local $cornersEnd i32) (local $lastSlot i32)
     (local $total v128) (local $totalSquared v128) (local $mean v128) (local $variance v128) (local $keep v128)
     (local $coefficient v128) (local $inverseA v128) (local $inverseB v128) (local $valueA v128) (local $valueB v128)
     (local $scoreA v128) (local $scoreB v128) (local $below v128) (local $above v128) (local $split v128)
@@ -79,36 +94,15 @@
     (local.set $inverseCount (f64x2.splat (global.get $inverseCount)))
     (local.set $flatVariance (f64x2.splat (global.get $flatVariance)))
 
-    ;; σ of every window of the row, two at a time; windows that are not flat
-    ;; are listed with their 1/σ.
-    (local.set $window0 (local.get $firstWindow))
-    (block $rowDone
-      (loop $nextPair
-        (br_if $rowDone (i32.gt_u (local.get $window0) (local.get $lastWindow)))
-        (if (i32.and (i32.eq (local.get $step) (i32.const 8)) (i32.le_u (i32.add (local.get $window0) (i32.const 8)) (local.get $lastWindow)))
-          (then
-            ;; Two adjacent windows (a one-pixel shift): each corner's two entries are consecutive.
-            (local.set $window1 (i32.add (local.get $window0) (i32.const 8)))
-            (local.set $second (i32.const 1))
-            (local.set $windows (i32.add (local.get $windows) (i32.const 2)))
-            (local.set $total
-              (f64x2.add
-                (f64x2.sub
-                  (f64x2.sub
-                    (v128.load (i32.add (local.get $window0) (local.get $bottomRight)))
-                    (v128.load (i32.add (local.get $window0) (local.get $bottomLeft))))
-                  (v128.load (i32.add (local.get $window0) (local.get $topRight))))
-                (v128.load (local.get $window0))))
-            (local.set $offset (i32.add (local.get $window0) (local.get $squaredDistance)))
-            (local.set $totalSquared
-              (f64x2.add
-                (f64x2.sub
-                  (f64x2.sub
-                    (v128.load (i32.add (local.get $offset) (local.get $bottomRight)))
-                    (v128.load (i32.add (local.get $offset) (local.get $bottomLeft))))
-                  (v128.load (i32.add (local.get $offset) (local.get $topRight))))
-                (v128.load (local.get $offset)))))
-          (else
+    (local.set $fromRow (i32.and (i32.eq (local.get $step) (i32.const 8)) (i32.ne (global.get $stageCount) (i32.const 0))))
+    (if (i32.eqz (local.get $fromRow))
+      (then
+        ;; σ of every window of the row, two at a time; windows that are not
+        ;; flat are listed with their 1/σ.
+        (local.set $window0 (local.get $firstWindow))
+        (block $rowDone
+          (loop $nextPair
+            (br_if $rowDone (i32.gt_u (local.get $window0) (local.get $lastWindow)))
             ;; The second lane takes the next window, or repeats the first (and is dropped) at the row's end.
             (local.set $window1 (i32.add (local.get $window0) (local.get $step)))
             (local.set $second (i32.le_u (local.get $window1) (local.get $lastWindow)))
@@ -137,70 +131,139 @@
                   (v128.load64_lane 1 (i32.add (local.get $window1) (i32.add (local.get $offset) (local.get $topRight)))
                     (v128.load64_zero (i32.add (local.get $window0) (i32.add (local.get $offset) (local.get $topRight))))))
                 (v128.load64_lane 1 (i32.add (local.get $window1) (local.get $offset))
-                  (v128.load64_zero (i32.add (local.get $window0) (local.get $offset))))))))
-        (local.set $mean (f64x2.mul (local.get $total) (local.get $inverseCount)))
-        (local.set $variance
-          (f64x2.sub
-            (f64x2.mul (local.get $totalSquared) (local.get $inverseCount))
-            (f64x2.mul (local.get $mean) (local.get $mean))))
-        ;; Not flat: variance ≥ the flat limit. A flat lane's 1/σ may be huge or NaN; it is not listed.
-        (local.set $keep (v128.not (f64x2.lt (local.get $variance) (local.get $flatVariance))))
-        ;; Listed either way, the slot taken only when kept: no branch to mispredict.
-        (local.set $total (f64x2.div (f64x2.splat (f64.const 1)) (f64x2.sqrt (local.get $variance))))
-        (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $count) (i32.const 2))) (local.get $window0))
-        (v128.store64_lane 0 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $count) (i32.const 3))) (local.get $total))
-        (local.set $count (i32.add (local.get $count) (i32.and (i32.wrap_i64 (i64x2.extract_lane 0 (local.get $keep))) (i32.const 1))))
-        (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $count) (i32.const 2))) (local.get $window1))
-        (v128.store64_lane 1 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $count) (i32.const 3))) (local.get $total))
-        (local.set $count (i32.add (local.get $count) (i32.and (i32.wrap_i64 (i64x2.extract_lane 1 (local.get $keep))) (local.get $second))))
-        (local.set $window0 (i32.add (local.get $window1) (local.get $step)))
-        (br $nextPair)))
-    (call $addToTally (i32.const 0) (f64.convert_i32_u (local.get $windows)))
-    (call $addToTally (i32.const 1) (f64.convert_i32_u (i32.sub (local.get $windows) (local.get $count))))
+                  (v128.load64_zero (i32.add (local.get $window0) (local.get $offset))))))
+            (local.set $mean (f64x2.mul (local.get $total) (local.get $inverseCount)))
+            (local.set $variance
+              (f64x2.sub
+                (f64x2.mul (local.get $totalSquared) (local.get $inverseCount))
+                (f64x2.mul (local.get $mean) (local.get $mean))))
+            ;; Not flat: variance ≥ the flat limit. A flat lane's 1/σ may be huge or NaN; it is not listed.
+            (local.set $keep (v128.not (f64x2.lt (local.get $variance) (local.get $flatVariance))))
+            ;; Listed either way, the slot taken only when kept: no branch to mispredict.
+            (local.set $total (f64x2.div (f64x2.splat (f64.const 1)) (f64x2.sqrt (local.get $variance))))
+            (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $count) (i32.const 2))) (local.get $window0))
+            (v128.store64_lane 0 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $count) (i32.const 3))) (local.get $total))
+            (local.set $count (i32.add (local.get $count) (i32.and (i32.wrap_i64 (i64x2.extract_lane 0 (local.get $keep))) (i32.const 1))))
+            (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $count) (i32.const 2))) (local.get $window1))
+            (v128.store64_lane 1 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $count) (i32.const 3))) (local.get $total))
+            (local.set $count (i32.add (local.get $count) (i32.and (i32.wrap_i64 (i64x2.extract_lane 1 (local.get $keep))) (local.get $second))))
+            (local.set $window0 (i32.add (local.get $window1) (local.get $step)))
+            (br $nextPair)))
+        (call $addToTally (i32.const 0) (f64.convert_i32_u (local.get $windows)))
+        (call $addToTally (i32.const 1) (f64.convert_i32_u (i32.sub (local.get $windows) (local.get $count))))))
 
-    ;; Every stage over the list, four windows at a time (two f64x2 halves, A
-    ;; and B), compacting the list in place: a group is read before any of its
-    ;; slots can be written. Each group goes through all the stage's weak
-    ;; classifiers: the score is Σ outputs from 0 in classifier order; a
-    ;; classifier's value is Σ coefficient · entry over its corners from 0 in
-    ;; corner order, and it adds belowOutput when value · (1/σ) < splitValue,
-    ;; else aboveOutput. The window passes when score − threshold ≥ 0, and that
-    ;; margin is its score.
     (local.set $stageAt (global.get $stagesAt))
     (local.set $stageWeaks (global.get $weaksAt))
     (local.set $stageCorners (global.get $cornersAt))
     (block $stagesDone
       (loop $nextStage
         (br_if $stagesDone (i32.ge_u (local.get $stage) (global.get $stageCount)))
-        (br_if $stagesDone (i32.eqz (local.get $count)))
+        (br_if $stagesDone (i32.and (i32.eqz (local.get $count)) (i32.eqz (local.get $fromRow))))
         (local.set $threshold (v128.load64_splat (local.get $stageAt)))
         (local.set $weaksEnd (i32.load offset=8 (local.get $stageAt)))
-        ;; The spare slots repeat the last window, so a group past the end reads real windows.
-        (local.set $lastSlot (i32.add (local.get $windowsAt) (i32.shl (i32.sub (local.get $count) (i32.const 1)) (i32.const 2))))
-        (local.set $window3 (i32.load (local.get $lastSlot)))
-        (i32.store offset=4 (local.get $lastSlot) (local.get $window3))
-        (i32.store offset=8 (local.get $lastSlot) (local.get $window3))
-        (i32.store offset=12 (local.get $lastSlot) (local.get $window3))
+        (if (i32.eqz (local.get $fromRow))
+          (then
+            ;; The spare slots repeat the last window, so a group past the end reads real windows.
+            (local.set $lastSlot (i32.add (local.get $windowsAt) (i32.shl (i32.sub (local.get $count) (i32.const 1)) (i32.const 2))))
+            (local.set $window3 (i32.load (local.get $lastSlot)))
+            (i32.store offset=4 (local.get $lastSlot) (local.get $window3))
+            (i32.store offset=8 (local.get $lastSlot) (local.get $window3))
+            (i32.store offset=12 (local.get $lastSlot) (local.get $window3))))
         (local.set $kept (i32.const 0))
         (local.set $index (i32.const 0))
+        (local.set $window0 (local.get $firstWindow))
         (block $groupsDone
           (loop $nextGroup
-            (br_if $groupsDone (i32.ge_u (local.get $index) (local.get $count)))
-            (local.set $offset (i32.add (local.get $windowsAt) (i32.shl (local.get $index) (i32.const 2))))
-            (local.set $window0 (i32.load (local.get $offset)))
-            (local.set $window1 (i32.load offset=4 (local.get $offset)))
-            (local.set $window2 (i32.load offset=8 (local.get $offset)))
-            (local.set $window3 (i32.load offset=12 (local.get $offset)))
-            (local.set $offset (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $index) (i32.const 3))))
-            (local.set $inverseA (v128.load (local.get $offset)))
-            (local.set $inverseB (v128.load offset=16 (local.get $offset)))
-            ;; (the spare slots repeat a window, so all three gaps are checked)
-            (local.set $adjacent
-              (i32.and
-                (i32.and
-                  (i32.eq (i32.sub (local.get $window1) (local.get $window0)) (i32.const 8))
-                  (i32.eq (i32.sub (local.get $window2) (local.get $window1)) (i32.const 8)))
-                (i32.eq (i32.sub (local.get $window3) (local.get $window2)) (i32.const 8))))
+            (if (local.get $fromRow)
+              (then
+                ;; The next four windows of the row. Past the row's end they
+                ;; read the following table entries (scan-kernel.ts pads the
+                ;; tables for the last row) and are not taken.
+                (br_if $groupsDone (i32.gt_u (local.get $window0) (local.get $lastWindow)))
+                (local.set $window1 (i32.add (local.get $window0) (i32.const 8)))
+                (local.set $window2 (i32.add (local.get $window0) (i32.const 16)))
+                (local.set $window3 (i32.add (local.get $window0) (i32.const 24)))
+                (local.set $take1 (i32.le_u (local.get $window1) (local.get $lastWindow)))
+                (local.set $take2 (i32.le_u (local.get $window2) (local.get $lastWindow)))
+                (local.set $take3 (i32.le_u (local.get $window3) (local.get $lastWindow)))
+                (local.set $windows (i32.add (local.get $windows)
+                  (i32.add (i32.add (i32.const 1) (local.get $take1)) (i32.add (local.get $take2) (local.get $take3)))))
+                (local.set $adjacent (i32.const 1))
+                ;; σ of windows 0, 1 (half A) and 2, 3 (half B).
+                (local.set $offset (i32.add (local.get $window0) (local.get $squaredDistance)))
+                (local.set $total
+                  (f64x2.add
+                    (f64x2.sub
+                      (f64x2.sub
+                        (v128.load (i32.add (local.get $window0) (local.get $bottomRight)))
+                        (v128.load (i32.add (local.get $window0) (local.get $bottomLeft))))
+                      (v128.load (i32.add (local.get $window0) (local.get $topRight))))
+                    (v128.load (local.get $window0))))
+                (local.set $totalSquared
+                  (f64x2.add
+                    (f64x2.sub
+                      (f64x2.sub
+                        (v128.load (i32.add (local.get $offset) (local.get $bottomRight)))
+                        (v128.load (i32.add (local.get $offset) (local.get $bottomLeft))))
+                      (v128.load (i32.add (local.get $offset) (local.get $topRight))))
+                    (v128.load (local.get $offset))))
+                (local.set $mean (f64x2.mul (local.get $total) (local.get $inverseCount)))
+                (local.set $variance
+                  (f64x2.sub (f64x2.mul (local.get $totalSquared) (local.get $inverseCount)) (f64x2.mul (local.get $mean) (local.get $mean))))
+                (local.set $keepA (v128.not (f64x2.lt (local.get $variance) (local.get $flatVariance))))
+                (local.set $inverseA (f64x2.div (f64x2.splat (f64.const 1)) (f64x2.sqrt (local.get $variance))))
+                (local.set $total
+                  (f64x2.add
+                    (f64x2.sub
+                      (f64x2.sub
+                        (v128.load offset=16 (i32.add (local.get $window0) (local.get $bottomRight)))
+                        (v128.load offset=16 (i32.add (local.get $window0) (local.get $bottomLeft))))
+                      (v128.load offset=16 (i32.add (local.get $window0) (local.get $topRight))))
+                    (v128.load offset=16 (local.get $window0))))
+                (local.set $totalSquared
+                  (f64x2.add
+                    (f64x2.sub
+                      (f64x2.sub
+                        (v128.load offset=16 (i32.add (local.get $offset) (local.get $bottomRight)))
+                        (v128.load offset=16 (i32.add (local.get $offset) (local.get $bottomLeft))))
+                      (v128.load offset=16 (i32.add (local.get $offset) (local.get $topRight))))
+                    (v128.load offset=16 (local.get $offset))))
+                (local.set $mean (f64x2.mul (local.get $total) (local.get $inverseCount)))
+                (local.set $variance
+                  (f64x2.sub (f64x2.mul (local.get $totalSquared) (local.get $inverseCount)) (f64x2.mul (local.get $mean) (local.get $mean))))
+                (local.set $keepB (v128.not (f64x2.lt (local.get $variance) (local.get $flatVariance))))
+                (local.set $inverseB (f64x2.div (f64x2.splat (f64.const 1)) (f64x2.sqrt (local.get $variance))))
+                ;; A window is taken when it is in the row and not flat.
+                (local.set $take0 (i32.and (i32.wrap_i64 (i64x2.extract_lane 0 (local.get $keepA))) (i32.const 1)))
+                (local.set $take1 (i32.and (i32.wrap_i64 (i64x2.extract_lane 1 (local.get $keepA))) (local.get $take1)))
+                (local.set $take2 (i32.and (i32.wrap_i64 (i64x2.extract_lane 0 (local.get $keepB))) (local.get $take2)))
+                (local.set $take3 (i32.and (i32.wrap_i64 (i64x2.extract_lane 1 (local.get $keepB))) (local.get $take3)))
+                (local.set $nonFlat (i32.add (local.get $nonFlat)
+                  (i32.add (i32.add (local.get $take0) (local.get $take1)) (i32.add (local.get $take2) (local.get $take3))))))
+              (else
+                ;; The next four listed windows; a slot past the list's end is not taken.
+                (br_if $groupsDone (i32.ge_u (local.get $index) (local.get $count)))
+                (local.set $offset (i32.add (local.get $windowsAt) (i32.shl (local.get $index) (i32.const 2))))
+                (local.set $window0 (i32.load (local.get $offset)))
+                (local.set $window1 (i32.load offset=4 (local.get $offset)))
+                (local.set $window2 (i32.load offset=8 (local.get $offset)))
+                (local.set $window3 (i32.load offset=12 (local.get $offset)))
+                (local.set $offset (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $index) (i32.const 3))))
+                (local.set $inverseA (v128.load (local.get $offset)))
+                (local.set $inverseB (v128.load offset=16 (local.get $offset)))
+                (local.set $take0 (i32.const 1))
+                (local.set $take1 (i32.lt_u (i32.add (local.get $index) (i32.const 1)) (local.get $count)))
+                (local.set $take2 (i32.lt_u (i32.add (local.get $index) (i32.const 2)) (local.get $count)))
+                (local.set $take3 (i32.lt_u (i32.add (local.get $index) (i32.const 3)) (local.get $count)))
+                ;; Four adjacent listed windows read each corner with two plain loads
+                ;; (the spare slots repeat a window, so all three gaps are checked).
+                (local.set $adjacent
+                  (i32.and
+                    (i32.and
+                      (i32.eq (i32.sub (local.get $window1) (local.get $window0)) (i32.const 8))
+                      (i32.eq (i32.sub (local.get $window2) (local.get $window1)) (i32.const 8)))
+                    (i32.eq (i32.sub (local.get $window3) (local.get $window2)) (i32.const 8))))
+                (local.set $index (i32.add (local.get $index) (i32.const 4)))))
             (local.set $scoreA (f64x2.splat (f64.const 0)))
             (local.set $scoreB (f64x2.splat (f64.const 0)))
             (local.set $weak (local.get $stageWeaks))
@@ -216,8 +279,6 @@
               (br_if $cornersDone (i32.ge_u (local.get $corner) (local.get $cornersEnd)))
               (if (local.get $adjacent)
                 (then
-                  ;; Four adjacent windows (stage 0 at a one-pixel shift, mostly):
-                  ;; each corner's four entries are consecutive, two plain loads.
                   (loop $nextAdjacentCorner
                     (local.set $offset (i32.add (local.get $window0) (i32.load (local.get $corner))))
                     (local.set $coefficient (v128.load64_splat offset=8 (local.get $corner)))
@@ -258,34 +319,38 @@
             (local.set $scoreB (f64x2.sub (local.get $scoreB) (local.get $threshold)))
             (local.set $keepA (v128.not (f64x2.lt (local.get $scoreA) (f64x2.splat (f64.const 0)))))
             (local.set $keepB (v128.not (f64x2.lt (local.get $scoreB) (f64x2.splat (f64.const 0)))))
-            ;; Write all four at `kept`, each taking its slot only when kept and
-            ;; inside the list (index + lane < count).
+            ;; Write all four at `kept`, each taking its slot only when taken and passing.
             (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window0))
             (v128.store64_lane 0 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseA))
             (v128.store64_lane 0 (i32.add (local.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreA))
-            (local.set $kept (i32.add (local.get $kept)
-              (i32.and (i32.wrap_i64 (i64x2.extract_lane 0 (local.get $keepA))) (i32.const 1))))
+            (local.set $kept (i32.add (local.get $kept) (i32.and (i32.wrap_i64 (i64x2.extract_lane 0 (local.get $keepA))) (local.get $take0))))
             (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window1))
             (v128.store64_lane 1 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseA))
             (v128.store64_lane 1 (i32.add (local.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreA))
-            (local.set $kept (i32.add (local.get $kept)
-              (i32.and (i32.wrap_i64 (i64x2.extract_lane 1 (local.get $keepA))) (i32.lt_u (i32.add (local.get $index) (i32.const 1)) (local.get $count)))))
+            (local.set $kept (i32.add (local.get $kept) (i32.and (i32.wrap_i64 (i64x2.extract_lane 1 (local.get $keepA))) (local.get $take1))))
             (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window2))
             (v128.store64_lane 0 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseB))
             (v128.store64_lane 0 (i32.add (local.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreB))
-            (local.set $kept (i32.add (local.get $kept)
-              (i32.and (i32.wrap_i64 (i64x2.extract_lane 0 (local.get $keepB))) (i32.lt_u (i32.add (local.get $index) (i32.const 2)) (local.get $count)))))
+            (local.set $kept (i32.add (local.get $kept) (i32.and (i32.wrap_i64 (i64x2.extract_lane 0 (local.get $keepB))) (local.get $take2))))
             (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window3))
             (v128.store64_lane 1 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseB))
             (v128.store64_lane 1 (i32.add (local.get $scoresAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $scoreB))
-            (local.set $kept (i32.add (local.get $kept)
-              (i32.and (i32.wrap_i64 (i64x2.extract_lane 1 (local.get $keepB))) (i32.lt_u (i32.add (local.get $index) (i32.const 3)) (local.get $count)))))
-            (local.set $index (i32.add (local.get $index) (i32.const 4)))
+            (local.set $kept (i32.add (local.get $kept) (i32.and (i32.wrap_i64 (i64x2.extract_lane 1 (local.get $keepB))) (local.get $take3))))
+            ;; (the next row-fed group starts four windows on; listed groups reload window0)
+            (local.set $window0 (i32.add (local.get $window0) (i32.const 32)))
             (br $nextGroup)))
+        ;; Tally the stage: windows the row had (row-fed stage 0), weak classifiers evaluated, rejections.
+        (local.set $listed (local.get $count))
+        (if (local.get $fromRow)
+          (then
+            (call $addToTally (i32.const 0) (f64.convert_i32_u (local.get $windows)))
+            (call $addToTally (i32.const 1) (f64.convert_i32_u (i32.sub (local.get $windows) (local.get $nonFlat))))
+            (local.set $listed (local.get $nonFlat))
+            (local.set $fromRow (i32.const 0))))
         (call $addToTally (i32.const 2)
-          (f64.mul (f64.convert_i32_u (local.get $count))
+          (f64.mul (f64.convert_i32_u (local.get $listed))
             (f64.convert_i32_u (i32.shr_u (i32.sub (local.get $weaksEnd) (local.get $stageWeaks)) (i32.const 5)))))
-        (call $addToTally (i32.add (i32.const 4) (local.get $stage)) (f64.convert_i32_u (i32.sub (local.get $count) (local.get $kept))))
+        (call $addToTally (i32.add (i32.const 4) (local.get $stage)) (f64.convert_i32_u (i32.sub (local.get $listed) (local.get $kept))))
         (local.set $count (local.get $kept))
         ;; The next stage starts where this one's records end.
         (if (i32.gt_u (local.get $weaksEnd) (local.get $stageWeaks))
