@@ -7,6 +7,7 @@ import { enumerateFeatures } from '../../src/features/enumerate-features.js';
 import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
 import { computeIntegralImage } from '../../src/image/integral-image.js';
 import { randomGrayImage } from '../helpers/random-image.js';
+import { hitStrings, scanTwin } from '../helpers/scan-twin.js';
 
 describe('scan against a brute-force twin', () => {
   it('accepts exactly the windows that per-window evaluateNormalizedFeature (scaledFeatureCells) accepts, at every scale', () => {
@@ -48,16 +49,16 @@ describe('scan against a brute-force twin', () => {
 });
 
 describe('scan against a brute-force twin, for every shape of first stage', () => {
-  // The first stage takes a fused pass when it has one or two classifiers of at
-  // most 9 corners, and the breadth-first list path otherwise (three classifiers);
-  // a one-stage cascade reports the fused pass's margins as scores. Every shape must
-  // give the twin's hits, scores and counters. The twin decides per window with
-  // evaluateNormalizedFeature and sums outputs from 0 in classifier order, so
-  // scores (sums of outputs minus the threshold) must match exactly.
+  // Stage 0 of a one-pixel-shift row is fed straight from the row (σ computed on
+  // the way); every other stage, and stage 0 at larger shifts, runs over the
+  // compacted list. A one-stage cascade reports stage 0's margins as scores.
+  // Every shape must give the twin's hits, scores and counters. The twin decides
+  // per window with evaluateNormalizedFeature and sums outputs from 0 in
+  // classifier order, so scores (sums of outputs minus the threshold) must match exactly.
   const shapes: { name: string; stageSizes: number[] }[] = [
     { name: 'one classifier, then two stages', stageSizes: [1, 3, 2] },
     { name: 'two classifiers, then one stage', stageSizes: [2, 3] },
-    { name: 'three classifiers (list path)', stageSizes: [3, 2] },
+    { name: 'three classifiers, then one stage', stageSizes: [3, 2] },
     { name: 'a single stage of two classifiers', stageSizes: [2] },
     { name: 'a single stage of one classifier', stageSizes: [1] },
   ];
@@ -75,39 +76,16 @@ describe('scan against a brute-force twin, for every shape of first stage', () =
       };
       const image = randomGrayImage(46, 38, `shape-image-${name}`);
       const integral = computeIntegralImage(image);
+      // Scale 1.3: windows shift by one pixel at the first two scales, by two after.
       const options = { scaleStep: 1.3, shift: 1 };
       const { hits, statistics } = scanImage(detectorCascadeFromModel(model), integral, options);
-      const expected: string[] = [];
-      const rejectedAtStage = model.stages.map(() => 0);
-      let featuresEvaluated = 0;
-      for (const scale of scanScales({ windowWidth: 12, windowHeight: 10 }, 46, 38, options)) {
-        const width = Math.round(12 * scale);
-        const height = Math.round(10 * scale);
-        const step = Math.max(1, Math.round(scale));
-        for (let y = 0; y + height <= 38; y += step) {
-          for (let x = 0; x + width <= 46; x += step) {
-            let margin = 0;
-            const failedAt = model.stages.findIndex((stage) => {
-              let score = 0;
-              for (const weak of stage.weakClassifiers) {
-                score += evaluateNormalizedFeature(integral, weak.feature, x, y, 12, 10, scale) < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
-              }
-              featuresEvaluated += stage.weakClassifiers.length;
-              margin = score - stage.threshold;
-              return score < stage.threshold;
-            });
-            if (failedAt >= 0) rejectedAtStage[failedAt]!++;
-            else expected.push(`${x},${y},${width},${height},${margin}`);
-          }
-        }
-      }
-      const found = Array.from({ length: hits.count }, (_, i) => `${hits.x[i]},${hits.y[i]},${hits.width[i]},${hits.height[i]},${hits.score[i]}`);
-      expect(expected.length).toBeGreaterThan(10);
-      expect(rejectedAtStage[0]).toBeGreaterThan(10); // the first stage does reject: the test can tell decisions apart
-      expect(found.sort()).toEqual(expected.sort());
+      const twin = scanTwin(model, integral, options);
+      expect(twin.hits.length).toBeGreaterThan(10);
+      expect(twin.statistics.rejectedAtStage[0]).toBeGreaterThan(10); // the first stage does reject: the test can tell decisions apart
+      expect(hitStrings(hits)).toEqual(twin.hits.sort());
       expect(statistics.flatWindows).toBe(0); // uniform random pixels: no window has variance < 1e-4
-      expect(statistics.rejectedAtStage).toEqual(rejectedAtStage);
-      expect(statistics.featuresEvaluated).toBe(featuresEvaluated);
+      expect(statistics.rejectedAtStage).toEqual(twin.statistics.rejectedAtStage);
+      expect(statistics.featuresEvaluated).toBe(twin.statistics.featuresEvaluated);
     });
   }
 });
@@ -158,8 +136,8 @@ describe('decisions at exact ties (split equal to a window normalized value)', (
     bits[0] = value >= 0 ? bits[0]! + 1n : bits[0]! - 1n;
     return new Float64Array(bits.buffer)[0]!;
   };
-  for (const copies of [1, 2, 3]) {
-    it(`first stage of ${copies} identical classifier${copies > 1 ? 's' : ''} (${copies < 3 ? 'fused pass' : 'list path'})`, async () => {
+  for (const [copies, shift] of [[1, 1], [2, 1], [3, 1], [2, 2]] as const) {
+    it(`first stage of ${copies} identical classifier${copies > 1 ? 's' : ''}, windows ${shift === 1 ? 'fed from the row (one-pixel shift)' : 'listed (two-pixel shift)'}`, async () => {
       const { rectangleSum } = await import('../../src/image/integral-image.js');
       const { featureCells } = await import('../../src/features/haar-feature.js');
       const image = randomGrayImage(30, 24, `ties-${copies}`);
@@ -168,8 +146,9 @@ describe('decisions at exact ties (split equal to a window normalized value)', (
       const random = seedrandom(`ties-windows-${copies}`);
       for (let trial = 0; trial < 12; trial++) {
         const feature = features[Math.floor(random() * features.length)]!;
-        const x = Math.floor(random() * 19);
-        const y = Math.floor(random() * 15);
+        // a window on the scan's grid (multiples of the shift)
+        const x = shift * Math.floor((random() * 19) / shift);
+        const y = shift * Math.floor((random() * 15) / shift);
         const cells = featureCells(feature);
         const value = cells.reduce((total, cell) => total + cell.weight * rectangleSum(integral.sum, integral.stride, x + cell.x, y + cell.y, cell.width, cell.height), 0);
         const inverseCount = 1 / 120;
@@ -179,7 +158,7 @@ describe('decisions at exact ties (split equal to a window normalized value)', (
         const passes = (split: number): boolean => {
           const weak = { rectangles: cells, splitValue: split, belowOutput: -1, aboveOutput: 1 };
           const cascade = { windowWidth: 12, windowHeight: 10, stages: [{ threshold: 0, weakClassifiers: Array.from({ length: copies }, () => weak) }] };
-          const { hits } = scanImage(cascade, integral, { largestSide: 12 });
+          const { hits } = scanImage(cascade, integral, { largestSide: 12, shift });
           return Array.from({ length: hits.count }, (_, i) => hits.x[i] === x && hits.y[i] === y).some(Boolean);
         };
         expect(passes(normalized)).toBe(true);

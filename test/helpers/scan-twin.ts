@@ -1,0 +1,62 @@
+import type { CascadeModel } from '../../src/cascade/cascade-model.js';
+import { resolveScanOptions, scanScales, type ScanOptions, type RawHits, type ScanStatistics } from '../../src/detect/scan-image.js';
+import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
+import type { IntegralImage } from '../../src/image/integral-image.js';
+import { windowStatistics } from '../../src/image/window-statistics.js';
+
+/** What the twin found: hits as "x,y,width,height,margin" strings and the scan's counters. */
+export interface TwinScan {
+  readonly hits: string[];
+  readonly statistics: Omit<ScanStatistics, 'scales'>;
+}
+
+/**
+ * The scan done the slow, obvious way: every window of every scale on its own,
+ * σ from windowStatistics (flat windows skipped), every feature through the
+ * training side's evaluateNormalizedFeature, outputs summed from 0 in order,
+ * and the window leaving at the first stage whose sum is below the threshold.
+ * Its margins (sums of outputs minus thresholds) equal the scan's bit for bit
+ * whenever the decisions agree.
+ */
+export function scanTwin(model: CascadeModel, integral: IntegralImage, options: ScanOptions = {}): TwinScan {
+  const { width: windowWidth, height: windowHeight } = model.window;
+  const { shift } = resolveScanOptions(options);
+  const hits: string[] = [];
+  const statistics = { windowsScanned: 0, flatWindows: 0, featuresEvaluated: 0, rejectedAtStage: model.stages.map(() => 0), accepted: 0 };
+  for (const scale of scanScales({ windowWidth, windowHeight }, integral.width, integral.height, options)) {
+    const width = Math.round(windowWidth * scale);
+    const height = Math.round(windowHeight * scale);
+    const step = Math.max(1, Math.round(shift * scale));
+    for (let y = 0; y + height <= integral.height; y += step) {
+      for (let x = 0; x + width <= integral.width; x += step) {
+        statistics.windowsScanned++;
+        if (windowStatistics(integral, x, y, width, height).standardDeviation === 0) {
+          statistics.flatWindows++;
+          continue;
+        }
+        let margin = 0;
+        const failedAt = model.stages.findIndex((stage) => {
+          let score = 0;
+          for (const weak of stage.weakClassifiers) {
+            score += evaluateNormalizedFeature(integral, weak.feature, x, y, windowWidth, windowHeight, scale) < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
+          }
+          statistics.featuresEvaluated += stage.weakClassifiers.length;
+          margin = score - stage.threshold;
+          return score < stage.threshold;
+        });
+        if (failedAt >= 0) {
+          statistics.rejectedAtStage[failedAt]!++;
+        } else {
+          statistics.accepted++;
+          hits.push(`${x},${y},${width},${height},${margin}`);
+        }
+      }
+    }
+  }
+  return { hits, statistics };
+}
+
+/** Raw hits in the twin's string form, sorted. */
+export function hitStrings(hits: RawHits): string[] {
+  return Array.from({ length: hits.count }, (_, i) => `${hits.x[i]},${hits.y[i]},${hits.width[i]},${hits.height[i]},${hits.score[i]}`).sort();
+}
