@@ -143,7 +143,13 @@ export class KernelImage {
     }
     const memory = exports.memory;
     const havePages = memory.buffer.byteLength / PAGE_BYTES;
-    if (pages > havePages) memory.grow(pages - havePages);
+    if (pages > havePages) {
+      try {
+        memory.grow(pages - havePages);
+      } catch (error) {
+        throw new RectboostError('bad-image', `A ${integral.width}×${integral.height} image needs ${needed} bytes of scan memory, which could not be had (${(error as Error).message}); shrink it.`, { cause: error });
+      }
+    }
     const buffer = memory.buffer;
     new Float64Array(buffer, this.sumAt, entries).set(integral.sum);
     new Float64Array(buffer, squaredAt, entries).set(integral.squaredSum);
@@ -207,10 +213,11 @@ export class KernelImage {
    * the next scanRow: each window's sum-table byte address (table entry =
    * (address − tableAddress) / 8) and its score.
    */
-  acceptedWindows(count: number): { addresses: Int32Array; tableAddress: number; scores: Float64Array } {
+  acceptedWindows(count: number): { addresses: Uint32Array; tableAddress: number; scores: Float64Array } {
     const buffer = this.exports.memory.buffer;
     return {
-      addresses: new Int32Array(buffer, this.exports.windowsAt.value, count),
+      // unsigned: addresses above 2 GiB are valid in WebAssembly's 32-bit memory
+      addresses: new Uint32Array(buffer, this.exports.windowsAt.value, count),
       tableAddress: this.sumAt,
       scores: new Float64Array(buffer, this.exports.scoresAt.value, count),
     };
