@@ -150,16 +150,25 @@ function meanOfGroups(hits: RawHits, boxes: Box[], order: number[], overlap: num
     bottom[i] = box[1] + box[3];
   });
   const byX = Int32Array.from(boxes.keys()).sort((a, b) => left[a]! - left[b]! || a - b);
+  // IoU > t needs the intersection to exceed t times box i's area (the union is
+  // at least that area), so both overlaps must exceed t times i's sides:
+  // iw · ih > t · wᵢ · hᵢ with iw ≤ wᵢ, ih ≤ hᵢ. Partners of i therefore start
+  // left of rightᵢ − t · wᵢ and overlap it by more than t · hᵢ in y. The bounds
+  // are loosened by one part in 10⁹ so that rounding cannot drop a pair that
+  // intersectionOverUnion would link.
+  const slack = 1 - 1e-9;
   for (let a = 0; a < count; a++) {
     const i = byX[a]!;
-    const rightOfI = right[i]!;
+    const xLimit = right[i]! - overlap * (right[i]! - left[i]!) * slack;
+    const yNeeded = overlap * (bottom[i]! - top[i]!) * slack;
     const topOfI = top[i]!;
     const bottomOfI = bottom[i]!;
+    // i's root stays its root through this loop: unions below hang other roots under it.
+    const rootOfI = root(i);
     for (let b = a + 1; b < count; b++) {
       const j = byX[b]!;
-      if (left[j]! >= rightOfI) break;
-      if (Math.min(bottomOfI, bottom[j]!) - Math.max(topOfI, top[j]!) <= 0) continue;
-      const rootOfI = root(i);
+      if (left[j]! >= xLimit) break;
+      if (Math.min(bottomOfI, bottom[j]!) - Math.max(topOfI, top[j]!) <= yNeeded) continue;
       const rootOfJ = root(j);
       if (rootOfI === rootOfJ) continue;
       if (intersectionOverUnion(boxes[i]!, boxes[j]!) > overlap) parent[rootOfJ] = rootOfI;

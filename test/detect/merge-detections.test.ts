@@ -81,23 +81,62 @@ function expectTextbookNms(seed: string, count: number, smallestSide: number, si
 }
 
 describe('mean merging on dense hits', () => {
-  it('groups exactly as union-find over every pair (quadratic twin) on 1500 hits', () => {
-    const random = seedrandom('mean-twin');
+  it('links every isolated pair whose IoU exceeds the overlap, down to the pruning bounds (pairs far apart, overlap 0.5)', () => {
+    // 900 pairs 1000 px apart, so each pair is one group or two by its own IoU, and a
+    // pruned linking pair shows up as a wrong support. The hardest pairs for the
+    // sweep's bounds: a full-height slice at box i's right edge, or a full-width
+    // slice at its bottom, a fraction s of i's side: IoU = s, linked when s > 0.5.
+    const random = seedrandom('mean-pairs');
     const list: Array<[number, number, number, number, number]> = [];
-    for (let i = 0; i < 1500; i++) {
-      const side = 10 + Math.floor(random() * 60);
-      list.push([Math.floor(random() * 300), Math.floor(random() * 200), side, side, Math.round(random() * 1000) / 100]);
+    const expected: number[] = [];
+    for (let k = 0; k < 900; k++) {
+      const [x, width, height] = [k * 1000, 20 + random() * 40, 20 + random() * 40];
+      const first: Box = [x, 0, width, height];
+      const fraction = 0.5 * (1 + (random() - 0.3) * 0.02); // 0.497 … 0.507
+      const second: Box = k % 3 === 0
+        ? [x + width * (1 - fraction), 0, width * fraction, height]
+        : k % 3 === 1
+          ? [x, height * (1 - fraction), width, height * fraction]
+          : [x + width * 0.3 * random(), height * 0.2 * random(), width * (0.8 + 0.4 * random()), height * (0.8 + 0.4 * random())];
+      list.push([...first, 1], [...second, 0.5]);
+      if (intersectionOverUnion(first, second) > 0.5) expected.push(2);
+      else expected.push(1, 1);
     }
-    const boxes: Box[] = list.map(([x, y, w, h]) => [x, y, w, h]);
-    const parent = boxes.map((_, i) => i);
-    const root = (i: number): number => (parent[i] === i ? i : (parent[i] = root(parent[i]!)));
-    for (let i = 0; i < boxes.length; i++) {
-      for (let j = i + 1; j < boxes.length; j++) if (intersectionOverUnion(boxes[i]!, boxes[j]!) > 0.4) parent[root(j)] = root(i);
-    }
-    const sizes = new Map<number, number>();
-    boxes.forEach((_, i) => sizes.set(root(i), (sizes.get(root(i)) ?? 0) + 1));
-    const merged = mergeDetections(hitsOf(list), { method: 'mean', overlap: 0.4 });
-    expect(merged.map((d) => d.support).sort((a, b) => a - b)).toEqual([...sizes.values()].sort((a, b) => a - b));
-    expect(merged.reduce((n, d) => n + d.support, 0)).toBe(1500);
+    expect(expected.filter((support) => support === 2).length).toBeGreaterThan(200);
+    expect(expected.filter((support) => support === 1).length).toBeGreaterThan(200);
+    const merged = mergeDetections(hitsOf(list), { method: 'mean', overlap: 0.5 });
+    expect(merged.map((d) => d.support).sort()).toEqual(expected.sort());
   });
+
+  // The sweep prunes pairs that cannot reach IoU > overlap (see meanOfGroups);
+  // rectangular boxes on a quarter-pixel grid and several overlaps check that no
+  // linking pair is pruned.
+  for (const [overlap, shape] of [[0.4, 'square, whole pixels'], [0, 'rectangular, quarter pixels'], [0.5, 'rectangular, quarter pixels'], [0.8, 'rectangular, quarter pixels']] as const) {
+    it(`groups exactly as union-find over every pair (quadratic twin) on 1500 hits, overlap ${overlap}, ${shape}`, () => {
+      const random = seedrandom(`mean-twin-${overlap}-${shape}`);
+      const whole = shape.startsWith('square');
+      const list: Array<[number, number, number, number, number]> = [];
+      for (let i = 0; i < 1500; i++) {
+        const side = 10 + Math.floor(random() * 60);
+        const height = whole ? side : side * (0.5 + random());
+        const snap = (value: number): number => (whole ? Math.floor(value) : Math.round(value * 4) / 4);
+        // (spread wider at overlap 0, where any touching boxes link)
+        const spread = overlap === 0 ? 8 : 1;
+        list.push([snap(random() * 300 * spread), snap(random() * 200 * spread), side, snap(height) || 1, Math.round(random() * 1000) / 100]);
+      }
+      const boxes: Box[] = list.map(([x, y, w, h]) => [x, y, w, h]);
+      const parent = boxes.map((_, i) => i);
+      const root = (i: number): number => (parent[i] === i ? i : (parent[i] = root(parent[i]!)));
+      for (let i = 0; i < boxes.length; i++) {
+        for (let j = i + 1; j < boxes.length; j++) if (intersectionOverUnion(boxes[i]!, boxes[j]!) > overlap) parent[root(j)] = root(i);
+      }
+      const sizes = new Map<number, number>();
+      boxes.forEach((_, i) => sizes.set(root(i), (sizes.get(root(i)) ?? 0) + 1));
+      expect(sizes.size).toBeGreaterThan(5); // several groups: the test can tell groupings apart
+      expect(sizes.size).toBeLessThan(1500);
+      const merged = mergeDetections(hitsOf(list), { method: 'mean', overlap });
+      expect(merged.map((d) => d.support).sort((a, b) => a - b)).toEqual([...sizes.values()].sort((a, b) => a - b));
+      expect(merged.reduce((n, d) => n + d.support, 0)).toBe(1500);
+    });
+  }
 });
