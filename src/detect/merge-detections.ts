@@ -131,53 +131,55 @@ function compareHits(hits: RawHits, a: number, b: number): number {
  */
 function meanOfGroups(hits: RawHits, boxes: Box[], order: number[], overlap: number): Detection[] {
   const count = boxes.length;
-  const parent = Int32Array.from(boxes.keys());
-  const root = (i: number): number => {
-    while (parent[i] !== i) {
-      parent[i] = parent[parent[i]!]!;
-      i = parent[i]!;
-    }
-    return i;
-  };
+  // Work in x order: position p holds hit byX[p], its sides copied to flat arrays
+  // so that the sweep reads memory in sequence; parent links positions.
+  const byX = Int32Array.from(boxes.keys()).sort((a, b) => boxes[a]![0] - boxes[b]![0] || a - b);
   const left = new Float64Array(count);
   const top = new Float64Array(count);
   const right = new Float64Array(count);
   const bottom = new Float64Array(count);
-  boxes.forEach((box, i) => {
-    left[i] = box[0];
-    top[i] = box[1];
-    right[i] = box[0] + box[2];
-    bottom[i] = box[1] + box[3];
-  });
-  const byX = Int32Array.from(boxes.keys()).sort((a, b) => left[a]! - left[b]! || a - b);
-  // IoU > t needs the intersection to exceed t times box i's area (the union is
-  // at least that area), so both overlaps must exceed t times i's sides:
-  // iw · ih > t · wᵢ · hᵢ with iw ≤ wᵢ, ih ≤ hᵢ. Partners of i therefore start
-  // left of rightᵢ − t · wᵢ and overlap it by more than t · hᵢ in y. The bounds
+  for (let p = 0; p < count; p++) {
+    const box = boxes[byX[p]!]!;
+    left[p] = box[0];
+    top[p] = box[1];
+    right[p] = box[0] + box[2];
+    bottom[p] = box[1] + box[3];
+  }
+  const parent = Int32Array.from(byX.keys());
+  const root = (p: number): number => {
+    while (parent[p] !== p) {
+      parent[p] = parent[parent[p]!]!;
+      p = parent[p]!;
+    }
+    return p;
+  };
+  // IoU > t needs the intersection to exceed t times box a's area (the union is
+  // at least that area), so both overlaps must exceed t times a's sides:
+  // iw · ih > t · wₐ · hₐ with iw ≤ wₐ, ih ≤ hₐ. Partners of a therefore start
+  // left of rightₐ − t · wₐ and overlap it by more than t · hₐ in y. The bounds
   // are loosened by one part in 10⁹ so that rounding cannot drop a pair that
   // intersectionOverUnion would link.
   const slack = 1 - 1e-9;
   for (let a = 0; a < count; a++) {
-    const i = byX[a]!;
-    const xLimit = right[i]! - overlap * (right[i]! - left[i]!) * slack;
-    const yNeeded = overlap * (bottom[i]! - top[i]!) * slack;
-    const topOfI = top[i]!;
-    const bottomOfI = bottom[i]!;
-    // i's root stays its root through this loop: unions below hang other roots under it.
-    const rootOfI = root(i);
-    for (let b = a + 1; b < count; b++) {
-      const j = byX[b]!;
-      if (left[j]! >= xLimit) break;
-      if (Math.min(bottomOfI, bottom[j]!) - Math.max(topOfI, top[j]!) <= yNeeded) continue;
-      const rootOfJ = root(j);
-      if (rootOfI === rootOfJ) continue;
-      if (intersectionOverUnion(boxes[i]!, boxes[j]!) > overlap) parent[rootOfJ] = rootOfI;
+    const xLimit = right[a]! - overlap * (right[a]! - left[a]!) * slack;
+    const yNeeded = overlap * (bottom[a]! - top[a]!) * slack;
+    const topOfA = top[a]!;
+    const bottomOfA = bottom[a]!;
+    // a's root stays its root through this loop: unions below hang other roots under it.
+    const rootOfA = root(a);
+    for (let b = a + 1; b < count && left[b]! < xLimit; b++) {
+      if (Math.min(bottomOfA, bottom[b]!) - Math.max(topOfA, top[b]!) <= yNeeded) continue;
+      const rootOfB = root(b);
+      if (rootOfA === rootOfB) continue;
+      if (intersectionOverUnion(boxes[byX[a]!]!, boxes[byX[b]!]!) > overlap) parent[rootOfB] = rootOfA;
     }
   }
   // Groups in the order of their best hit, so the output is sorted by score.
   const groups = new Map<number, number[]>();
+  const positionOf = new Int32Array(count);
+  byX.forEach((i, p) => (positionOf[i] = p));
   for (const i of order) {
-    const key = root(i);
+    const key = root(positionOf[i]!);
     const members = groups.get(key);
     if (members) members.push(i);
     else groups.set(key, [i]);
