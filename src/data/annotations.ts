@@ -1,6 +1,7 @@
-import { readFile, stat } from 'node:fs/promises';
+import { stat } from 'node:fs/promises';
 import { dirname, isAbsolute, resolve } from 'node:path';
 import { RectboostError } from '../errors.js';
+import { readFileBytes } from '../io/read-file-bytes.js';
 import type { Box } from '../metrics/intersection-over-union.js';
 
 /** Boxes of one annotated image; `image` is resolved against the annotation file's folder. */
@@ -25,12 +26,7 @@ export interface AnnotatedImage {
  * @example const truth = await loadAnnotations('scenes/truth.jsonl');
  */
 export async function loadAnnotations(path: string): Promise<AnnotatedImage[]> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch (error) {
-    throw new RectboostError('bad-annotation', `Annotation file ${path} cannot be read (${(error as NodeJS.ErrnoException).code ?? 'error'}); check the path.`, { cause: error });
-  }
+  const text = (await readFileBytes(path, 'bad-annotation', 'Annotation file')).toString('utf8');
   const entries = parseAnnotations(text, path);
   await Promise.all(
     entries.map(async (entry) => {

@@ -1,6 +1,6 @@
-import { readFile } from 'node:fs/promises';
 import { gunzipSync } from 'node:zlib';
 import { RectboostError } from '../errors.js';
+import { readFileBytes } from '../io/read-file-bytes.js';
 
 /** An unsigned-byte array read from an IDX file, row-major (last dimension fastest). */
 export interface IdxArray {
@@ -69,12 +69,7 @@ export function readIdx(bytes: Uint8Array, label = 'the IDX data'): IdxArray {
  * @example const labels = await readIdxFile('reference-data/fashion-mnist/t10k-labels-idx1-ubyte.gz');
  */
 export async function readIdxFile(path: string): Promise<IdxArray> {
-  let bytes: Buffer;
-  try {
-    bytes = await readFile(path);
-  } catch (error) {
-    throw new RectboostError('bad-data', `IDX file ${path} cannot be read (${(error as NodeJS.ErrnoException).code ?? 'unknown error'}); check the path.`, { cause: error });
-  }
+  const bytes = await readFileBytes(path, 'bad-data', 'IDX file');
   return readIdx(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.length), `IDX file ${path}`);
 }
 

@@ -1,5 +1,5 @@
-import { readFile } from 'node:fs/promises';
 import { RectboostError } from '../errors.js';
+import { readFileBytes } from '../io/read-file-bytes.js';
 
 /**
  * An array read from a NumPy .npy file, in C (row-major) order.
@@ -106,12 +106,7 @@ export function readNpy(bytes: Uint8Array, label = 'the .npy data'): NpyArray {
  * @example const faces = await readNpyFile('reference-data/lfw_subset.npy');
  */
 export async function readNpyFile(path: string): Promise<NpyArray> {
-  let bytes: Buffer;
-  try {
-    bytes = await readFile(path);
-  } catch (error) {
-    throw new RectboostError('bad-data', `NumPy file ${path} cannot be read (${(error as NodeJS.ErrnoException).code ?? 'unknown error'}); check the path.`, { cause: error });
-  }
+  const bytes = await readFileBytes(path, 'bad-data', 'NumPy file');
   return readNpy(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.length), `NumPy file ${path}`);
 }
 
