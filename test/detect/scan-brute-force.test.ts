@@ -2,12 +2,11 @@ import seedrandom from 'seedrandom';
 import { describe, expect, it } from 'vitest';
 import type { CascadeModel } from '../../src/cascade/cascade-model.js';
 import { detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
-import { scanImage, scanScales } from '../../src/detect/scan-image.js';
+import { scanImage } from '../../src/detect/scan-image.js';
 import { enumerateFeatures } from '../../src/features/enumerate-features.js';
-import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
 import { computeIntegralImage } from '../../src/image/integral-image.js';
 import { randomGrayImage } from '../helpers/random-image.js';
-import { hitStrings, scanTwin } from '../helpers/scan-twin.js';
+import { hitStrings, randomCascadeModel, scanTwin } from '../helpers/scan-twin.js';
 
 describe('scan against a brute-force twin', () => {
   it('accepts exactly the windows that per-window evaluateNormalizedFeature (scaledFeatureCells) accepts, at every scale', () => {
@@ -24,27 +23,10 @@ describe('scan against a brute-force twin', () => {
     const integral = computeIntegralImage(image);
     const options = { scaleStep: 1.3, shift: 1.5 };
     const { hits } = scanImage(detectorCascadeFromModel(model), integral, options);
-    const expected: string[] = [];
-    for (const scale of scanScales({ windowWidth: 12, windowHeight: 10 }, 50, 40, options)) {
-      const width = Math.round(12 * scale);
-      const height = Math.round(10 * scale);
-      const step = Math.max(1, Math.round(1.5 * scale));
-      for (let y = 0; y + height <= 40; y += step) {
-        for (let x = 0; x + width <= 50; x += step) {
-          const accepted = model.stages.every((stage) => {
-            let score = 0;
-            for (const weak of stage.weakClassifiers) {
-              score += evaluateNormalizedFeature(integral, weak.feature, x, y, 12, 10, scale) < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
-            }
-            return score >= stage.threshold;
-          });
-          if (accepted) expected.push(`${x},${y},${width},${height}`);
-        }
-      }
-    }
-    const found = Array.from({ length: hits.count }, (_, i) => `${hits.x[i]},${hits.y[i]},${hits.width[i]},${hits.height[i]}`);
+    // The twin walks every window of every scale on its own (shift 1.5: steps of round(1.5 · scale)).
+    const expected = scanTwin(model, integral, options).hits;
     expect(expected.length).toBeGreaterThan(20);
-    expect(found.sort()).toEqual(expected.sort());
+    expect(hitStrings(hits)).toEqual(expected.sort());
   });
 });
 
@@ -64,16 +46,7 @@ describe('scan against a brute-force twin, for every shape of first stage', () =
   ];
   for (const { name, stageSizes } of shapes) {
     it(`${name}: same hits, scores, rejections by stage and weak classifiers evaluated`, () => {
-      const random = seedrandom(`shape-${name}`);
-      const features = enumerateFeatures(12, 10);
-      const model: CascadeModel = {
-        format: 'rectboost-cascade', version: 1, window: { width: 12, height: 10 }, normalization: 'window-standard-deviation', featureSet: 'basic',
-        // A lone classifier needs threshold 0 to reject anything (below outputs are < 0, above ≥ 0).
-        stages: stageSizes.map((size) => ({
-          threshold: size === 1 ? 0 : -0.3 * random(),
-          weakClassifiers: Array.from({ length: size }, () => ({ feature: features[Math.floor(random() * features.length)]!, splitValue: random() - 0.5, belowOutput: -random(), aboveOutput: random() })),
-        })),
-      };
+      const model = randomCascadeModel(`shape-${name}`, stageSizes);
       const image = randomGrayImage(46, 38, `shape-image-${name}`);
       const integral = computeIntegralImage(image);
       // Scale 1.3: windows shift by one pixel at the first two scales, by two after.

@@ -5,31 +5,16 @@ import type { CascadeModel } from '../../src/cascade/cascade-model.js';
 import { detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
 import { SCAN_KERNEL_BASE64 } from '../../src/detect/scan-kernel-binary.js';
 import { scanImage } from '../../src/detect/scan-image.js';
-import { enumerateFeatures } from '../../src/features/enumerate-features.js';
 import { createGrayImage } from '../../src/image/gray-image.js';
 import { computeIntegralImage } from '../../src/image/integral-image.js';
 import { randomGrayImage } from '../helpers/random-image.js';
-import { hitStrings, scanTwin } from '../helpers/scan-twin.js';
+import { hitStrings, randomCascadeModel, scanTwin } from '../helpers/scan-twin.js';
 
 // The scan kernel (src/detect/scan-kernel.wat) takes windows four at a time,
 // straight from the row at a one-pixel shift and from a compacted list
 // otherwise. These cases aim at its seams: rows whose window count is not a
 // multiple of four, lists with gaps (flat windows), the last row of the table,
 // stages without classifiers, and reuse of its memory across images.
-
-function randomModel(seed: string, stageSizes: number[], window = { width: 12, height: 10 }): CascadeModel {
-  const random = seedrandom(seed);
-  const features = enumerateFeatures(window.width, window.height);
-  return {
-    format: 'rectboost-cascade', version: 1, window, normalization: 'window-standard-deviation', featureSet: 'basic',
-    stages: stageSizes.map((size) => ({
-      threshold: size === 1 ? 0 : -0.3 * random(),
-      weakClassifiers: Array.from({ length: size }, () => ({
-        feature: features[Math.floor(random() * features.length)]!, splitValue: random() - 0.5, belowOutput: -random(), aboveOutput: random(),
-      })),
-    })),
-  };
-}
 
 function expectSameAsTwin(model: CascadeModel, image: ReturnType<typeof randomGrayImage>, options: Parameters<typeof scanImage>[2]): void {
   const integral = computeIntegralImage(image);
@@ -50,7 +35,7 @@ describe('scan kernel', () => {
   });
 
   it('handles rows of 1 to 9 windows, at one- and two-pixel shifts (every tail of a group of four)', () => {
-    const model = randomModel('tails', [2, 3, 2]);
+    const model = randomCascadeModel('tails', [2, 3, 2]);
     for (let extra = 0; extra <= 8; extra++) {
       const image = randomGrayImage(12 + extra, 14, `tails-${extra}`);
       for (const shift of [1, 2]) expectSameAsTwin(model, image, { shift, largestSide: 12 });
@@ -58,7 +43,7 @@ describe('scan kernel', () => {
   });
 
   it('matches the twin across scales on a wide image (rows long enough for many groups)', () => {
-    const model = randomModel('wide', [2, 4, 3, 5]);
+    const model = randomCascadeModel('wide', [2, 4, 3, 5]);
     expectSameAsTwin(model, randomGrayImage(97, 41, 'wide'), { scaleStep: 1.2, shift: 1 });
   });
 
@@ -76,7 +61,7 @@ describe('scan kernel', () => {
       }
     }
     const image = createGrayImage(width, height, data);
-    const model = randomModel('flat-model', [2, 3, 3]);
+    const model = randomCascadeModel('flat-model', [2, 3, 3]);
     for (const shift of [1, 2]) {
       const integral = computeIntegralImage(image);
       const { statistics } = scanImage(detectorCascadeFromModel(model), integral, { shift, largestSide: 12 });
@@ -86,12 +71,12 @@ describe('scan kernel', () => {
   });
 
   it('without stages accepts every window that is not flat, with score 0', () => {
-    const model: CascadeModel = { ...randomModel('none', []) };
+    const model: CascadeModel = { ...randomCascadeModel('none', []) };
     for (const shift of [1, 2]) expectSameAsTwin(model, randomGrayImage(23, 17, 'no-stages'), { shift });
   });
 
   it('a stage without weak classifiers passes every window when its threshold is ≤ 0 and none when it is > 0', () => {
-    const model = randomModel('empty-stage', [2, 3]);
+    const model = randomCascadeModel('empty-stage', [2, 3]);
     const integral = computeIntegralImage(randomGrayImage(30, 20, 'empty-stage'));
     const cascade = detectorCascadeFromModel(model);
     for (const shift of [1, 2]) {
@@ -105,7 +90,7 @@ describe('scan kernel', () => {
   });
 
   it('gives the same result for an image scanned before and after a larger one (memory reused and regrown)', () => {
-    const model = randomModel('reuse', [2, 3]);
+    const model = randomCascadeModel('reuse', [2, 3]);
     const cascade = detectorCascadeFromModel(model);
     const small = computeIntegralImage(randomGrayImage(40, 30, 'reuse-small'));
     const before = hitStrings(scanImage(cascade, small, {}).hits);

@@ -1,5 +1,7 @@
+import seedrandom from 'seedrandom';
 import type { CascadeModel } from '../../src/cascade/cascade-model.js';
 import { resolveScanOptions, scanScales, type ScanOptions, type RawHits, type ScanStatistics } from '../../src/detect/scan-image.js';
+import { enumerateFeatures } from '../../src/features/enumerate-features.js';
 import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
 import type { IntegralImage } from '../../src/image/integral-image.js';
 import { windowStatistics } from '../../src/image/window-statistics.js';
@@ -59,4 +61,24 @@ export function scanTwin(model: CascadeModel, integral: IntegralImage, options: 
 /** Raw hits in the twin's string form, sorted. */
 export function hitStrings(hits: RawHits): string[] {
   return Array.from({ length: hits.count }, (_, i) => `${hits.x[i]},${hits.y[i]},${hits.width[i]},${hits.height[i]},${hits.score[i]}`).sort();
+}
+
+/**
+ * A cascade of random basic features on a 12×10 window (by default), seeded:
+ * stage k has stageSizes[k] classifiers with splits in [−0.5, 0.5), below outputs
+ * in (−1, 0], above outputs in [0, 1); a lone classifier gets threshold 0 (the only
+ * one at which it can reject), larger stages a threshold in (−0.3, 0].
+ */
+export function randomCascadeModel(seed: string, stageSizes: number[], window = { width: 12, height: 10 }): CascadeModel {
+  const random = seedrandom(seed);
+  const features = enumerateFeatures(window.width, window.height);
+  return {
+    format: 'rectboost-cascade', version: 1, window, normalization: 'window-standard-deviation', featureSet: 'basic',
+    stages: stageSizes.map((size) => ({
+      threshold: size === 1 ? 0 : -0.3 * random(),
+      weakClassifiers: Array.from({ length: size }, () => ({
+        feature: features[Math.floor(random() * features.length)]!, splitValue: random() - 0.5, belowOutput: -random(), aboveOutput: random(),
+      })),
+    })),
+  };
 }
