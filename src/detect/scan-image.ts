@@ -129,7 +129,6 @@ function compileAtScale(cascade: DetectorCascade, scale: number, stride: number,
     thresholds[stageIndex] = stage.threshold;
   });
   return {
-    scale,
     windowWidth: Math.round(cascade.windowWidth * scale),
     windowHeight: Math.round(cascade.windowHeight * scale),
     step: Math.max(1, Math.round(shift * scale)),

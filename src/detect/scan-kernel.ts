@@ -8,7 +8,6 @@ import { SCAN_KERNEL_BASE64 } from './scan-kernel-binary.js';
  * (offsets in table entries, relative to the window's top-left entry).
  */
 export interface ScaledCascade {
-  readonly scale: number;
   readonly windowWidth: number;
   readonly windowHeight: number;
   /** Window shift in pixels. */
