@@ -47,6 +47,9 @@ async function waitForJob(job: string, limitSeconds: number): Promise<void> {
   throw new Error(`Slurm job ${job} still queued or running after ${limitSeconds} s; see ${folder}/out/logs and ${cluster}/slurmctld.log`);
 }
 
+/** Jobs this test submitted. */
+const jobs: string[] = [];
+
 function lineCount(path: string): number {
   return existsSync(path) ? readFileSync(path, 'utf8').split('\n').length - 1 : 0;
 }
@@ -58,6 +61,8 @@ describe.runIf(present || underCi)('Slurm job array (one-node cluster on localho
   });
 
   afterAll(() => {
+    // A failed run may leave tasks of this test's own cluster behind: cancel them before the daemons stop.
+    if (jobs.length > 0) spawnSync('scancel', ['--full', '--signal=KILL', ...jobs], { env: environment });
     if (present) execFileSync('bash', [join(SCRIPTS, 'local-cluster.sh'), 'stop', cluster], { stdio: 'inherit' });
   });
 
@@ -70,6 +75,7 @@ describe.runIf(present || underCi)('Slurm job array (one-node cluster on localho
     const submitted = execFileSync('bash', [join(SCRIPTS, 'submit-detect.sh'), '--tasks', String(TASKS), '--cpus', '1', list, DEMO_CASCADE, out, '--', ...OPTIONS], { env: environment, encoding: 'utf8' });
     const job = /Submitted job array (\d+)/.exec(submitted)?.[1];
     expect(job, submitted).toBeDefined();
+    jobs.push(job!);
 
     // Kill task KILLED once it has written a few images, as a lost node or a time limit would.
     const killedFile = join(shards, `shard-${KILLED}-of-${TASKS}.jsonl`);
@@ -90,6 +96,7 @@ describe.runIf(present || underCi)('Slurm job array (one-node cluster on localho
 
     // Re-submit the killed task alone with the same job script: it resumes.
     const again = slurm('sbatch', ['--parsable', `--array=${KILLED}`, join(out, 'detect-array.sbatch')]).trim().split(';')[0]!;
+    jobs.push(again);
     await waitForJob(again, 120);
     const log = readFileSync(join(out, 'logs', `task-${KILLED}.log`), 'utf8');
     expect(log).toMatch(new RegExp(`\\(${leftBehind} skipped as already written`));
