@@ -1,5 +1,6 @@
 import { createReadStream } from 'node:fs';
-import { mkdir, open, readFile, rm, stat, type FileHandle } from 'node:fs/promises';
+import { randomBytes } from 'node:crypto';
+import { link, mkdir, open, readFile, rm, stat, writeFile, type FileHandle } from 'node:fs/promises';
 import { join } from 'node:path';
 import { createInterface } from 'node:readline';
 import { RectboostError } from '../errors.js';
@@ -62,12 +63,16 @@ export function shardPaths(folder: string, shard: Shard): { readonly lines: stri
 /**
  * Opens (creating folder and file if needed) the detections file of `shard` in
  * `folder`, removes its done marker (this run may not finish) and cuts off a torn
- * last line.
- * @throws RectboostError `bad-data` when the file holds a line that is not a detections line with a list line number, or a line twice.
+ * last line. `settings` (any JSON value: cascade hash, options, list, shard count)
+ * is recorded in `folder/run.json` by the first shard that starts; every later
+ * shard must bring the same, so one folder never mixes the results of two setups.
+ * @throws RectboostError `bad-data` when `settings` differ from run.json, or the file holds a line
+ *   that is not a detections line with a list line number, or a line twice.
  */
-export async function openShardOutput(folder: string, shard: Shard): Promise<ShardOutput> {
+export async function openShardOutput(folder: string, shard: Shard, settings: unknown = { shardCount: shard.count }): Promise<ShardOutput> {
   const paths = shardPaths(folder, shard);
   await mkdir(folder, { recursive: true });
+  await claimRunSettings(folder, settings);
   await rm(paths.done, { force: true });
   await cutTornTail(paths.lines);
   const written = new Set<number>();
@@ -119,6 +124,32 @@ export async function openShardOutput(folder: string, shard: Shard): Promise<Sha
     },
     close: closeFile,
   };
+}
+
+/**
+ * Writes folder/run.json unless it exists (a hard link of a finished temporary file,
+ * so shards starting at once never see it half-written), then checks it matches.
+ */
+async function claimRunSettings(folder: string, settings: unknown): Promise<void> {
+  const path = join(folder, 'run.json');
+  const text = `${JSON.stringify(settings, null, 2)}\n`;
+  const temporary = join(folder, `.rectboost-tmp-run-${randomBytes(4).toString('hex')}`);
+  await writeFile(temporary, text);
+  try {
+    await link(temporary, path);
+  } catch (error) {
+    if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
+  } finally {
+    await rm(temporary, { force: true });
+  }
+  const recorded = await readFile(path, 'utf8');
+  if (recorded !== text) {
+    throw new RectboostError(
+      'bad-data',
+      `${path} records other settings (cascade, scan or merge options, list or shard count) than this run: ${JSON.stringify(settings)}; ` +
+        'use a new --shard-dir for a new setup, or delete that folder to start over.',
+    );
+  }
 }
 
 function duplicateLine(path: string, line: number): RectboostError {

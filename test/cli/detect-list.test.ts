@@ -123,6 +123,19 @@ describe('rectboost detect --list', () => {
     expect(statSync(join(shards, 'shard-0-of-1.done.json')).size).toBeGreaterThan(0);
   });
 
+  it('refuses to add a shard run with other settings to a shard folder, and counts a runtime export as the same cascade', () => {
+    const shards = join(folder, 'settings');
+    const base = ['detect', DEMO_CASCADE, '--list', list, '--shard-dir', shards, '--no-timing', '--workers', '0'];
+    expect(runCli([...base, '--shard', '0/4']).status).toBe(0); // the broken file (line 7) is in shard 2
+    const other = runCli([...base, '--shard', '1/4', '--merge', 'mean']);
+    expect(other.status).toBe(1);
+    expect(other.stderr).toMatch(/run\.json records other settings .* use a new --shard-dir for a new setup/);
+    expect(existsSync(join(shards, 'shard-1-of-4.jsonl'))).toBe(false);
+    const exported = join(folder, 'runtime-cascade.json');
+    runCli(['export', DEMO_CASCADE, '--out', exported]);
+    expect(runCli(['detect', exported, ...base.slice(2), '--shard', '1/4']).status).toBe(0);
+  });
+
   it('refuses images and --list together, and --shard without --list', () => {
     expect(runCli(['detect', DEMO_CASCADE, list, '--list', list]).stderr.trim()).toBe('rectboost: Give image files or folders, or --list FILE, but not both (and not neither).');
     const shardOnly = runCli(['detect', DEMO_CASCADE, join(folder, 'images'), '--shard', '0/2']);

@@ -1,8 +1,10 @@
+import { createHash } from 'node:crypto';
 import { basename, extname, join } from 'node:path';
 import type { Command } from 'commander';
 import { readImageList } from '../../data/image-list.js';
 import { listImageFilesOfAll } from '../../data/list-images.js';
 import { RectboostError } from '../../errors.js';
+import { runtimeFileFromDetector } from '../../cascade/runtime-export.js';
 import { writeFileAtomic } from '../../io/atomic-write.js';
 import { formatDetectionLine } from '../../io/detections-file.js';
 import { DETECTION_COLOUR, drawBoxes } from '../../io/draw-boxes.js';
@@ -66,7 +68,16 @@ export function registerDetectCommand(program: Command): void {
       const { detector } = await loadCascadeFile(modelPath);
       const files = listed ? [] : await listImageFilesOfAll(paths);
       if (!listed && files.length === 0) throw new RectboostError('bad-data', `No image files (PNG, JPEG, TIFF, WebP) under ${paths.join(', ')}.`);
-      const output: ShardOutput | undefined = options.shardDir === undefined ? undefined : await openShardOutput(options.shardDir, shard);
+      // What must not change between the shards of one folder: a full model and its runtime export count as one cascade.
+      const settings = {
+        cascadeSha256: createHash('sha256').update(JSON.stringify(runtimeFileFromDetector(detector))).digest('hex'),
+        scan: parsed.scan,
+        merge: parsed.merge,
+        timing: options.timing,
+        list: options.list,
+        shardCount: shard.count,
+      };
+      const output: ShardOutput | undefined = options.shardDir === undefined ? undefined : await openShardOutput(options.shardDir, shard, settings);
       const listEntries = options.list === undefined ? undefined : readImageList(options.list, shard);
       const entries: Iterable<InputEntry> | AsyncIterable<InputEntry> = listEntries === undefined ? files.map((image): InputEntry => ({ image })) : output === undefined ? listEntries : output.remaining(listEntries);
       const lines: string[] = [];
