@@ -35,7 +35,7 @@ while [[ $# -gt 0 ]]; do
     --max-running) max_running="$2"; shift 2 ;;
     --then-join) then_join=1; shift ;;
     --write-only) write_only=1; shift ;;
-    -h|--help) sed -n '2,27p' "$0" | sed 's/^# \{0,1\}//'; exit 0 ;;
+    -h|--help) sed -n '2,26p' "$0" | sed 's/^# \{0,1\}//'; exit 0 ;;
     --) break ;;
     -*) echo "submit-detect: unknown option $1 (see --help)" >&2; exit 2 ;;
     *) break ;;

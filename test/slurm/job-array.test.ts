@@ -72,10 +72,12 @@ describe.runIf(present || underCi)('Slurm job array (one-node cluster on localho
     const out = join(folder, 'out');
     const shards = join(out, 'shards');
 
-    const submitted = execFileSync('bash', [join(SCRIPTS, 'submit-detect.sh'), '--tasks', String(TASKS), '--cpus', '1', list, DEMO_CASCADE, out, '--', ...OPTIONS], { env: environment, encoding: 'utf8' });
+    const submitted = execFileSync('bash', [join(SCRIPTS, 'submit-detect.sh'), '--tasks', String(TASKS), '--cpus', '1', '--then-join', list, DEMO_CASCADE, out, '--', ...OPTIONS], { env: environment, encoding: 'utf8' });
     const job = /Submitted job array (\d+)/.exec(submitted)?.[1];
     expect(job, submitted).toBeDefined();
-    jobs.push(job!);
+    const joinJob = /Submitted join job (\d+)/.exec(submitted)?.[1];
+    expect(joinJob, submitted).toBeDefined();
+    jobs.push(job!, joinJob!);
 
     // Kill task KILLED once it has written a few images, as a lost node or a time limit would.
     const killedFile = join(shards, `shard-${KILLED}-of-${TASKS}.jsonl`);
@@ -91,8 +93,10 @@ describe.runIf(present || underCi)('Slurm job array (one-node cluster on localho
     expect(leftBehind).toBeGreaterThanOrEqual(3);
     expect(leftBehind).toBeLessThan(share); // it did stop midway
     expect(existsSync(join(shards, `shard-${KILLED}-of-${TASKS}.done.json`))).toBe(false);
-    const early = runCli(['join', shards, '--out', join(out, 'early.jsonl')]);
-    expect(early.stderr).toMatch(new RegExp(`1 of ${TASKS} shards .* are missing or unfinished \\(${KILLED}\\)`));
+    // The join job waited for the whole array (afterany) and refused, naming the unfinished shard.
+    await waitForJob(joinJob!, 60);
+    expect(readFileSync(join(out, 'logs', 'join.log'), 'utf8')).toMatch(new RegExp(`1 of ${TASKS} shards .* are missing or unfinished \\(${KILLED}\\)`));
+    expect(existsSync(join(out, 'detections.jsonl'))).toBe(false);
 
     // Re-submit the killed task alone with the same job script: it resumes.
     const again = slurm('sbatch', ['--parsable', `--array=${KILLED}`, join(out, 'detect-array.sbatch')]).trim().split(';')[0]!;
