@@ -9,7 +9,9 @@
 set -uo pipefail
 cd "$(dirname "$0")/.."
 # Debian package, and the command that shows it is installed.
-TEST_PACKAGES=()
+TEST_PACKAGES=(
+  slurm-wlm:slurmctld munge:munged   # test/slurm: a one-node Slurm cluster for the job-array recipe
+)
 problems=0
 note() { echo "prepare-tests: $*" >&2; problems=$((problems + 1)); }
 

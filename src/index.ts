@@ -108,7 +108,14 @@ export { loadAnnotations, parseAnnotations, type AnnotatedImage } from './data/a
 export { drawBoxes, DETECTION_COLOUR, TRUTH_COLOUR, type RgbColour } from './io/draw-boxes.js';
 export { drawFeatureSheet, POSITIVE_CELL_COLOUR, NEGATIVE_CELL_COLOUR } from './io/draw-features.js';
 export { createScanPool, type ScanPool, type TimedScanResult } from './parallel/scan-pool.js';
-export { detectFiles, type DetectFilesOptions, type FileOutcome, type ImageDetections } from './parallel/detect-files.js';
+export { detectFiles, detectEntries, type DetectFilesOptions, type FileOutcome, type ImageDetections } from './parallel/detect-files.js';
+
+// --- Large batches (issue 15): image lists, shards (also from Slurm array variables), resumable shard files, join
+export { imageListEntries, readImageList, type ImageListEntry } from './data/image-list.js';
+export { parseShard, shardFromEnvironment, shardOfLine, lineInShard, WHOLE_LIST, type Shard } from './parallel/shard.js';
+export { formatDetectionLine, DETECTIONS_VERSION, type DetectionLineOptions } from './io/detections-file.js';
+export { openShardOutput, shardPaths, type ShardOutput, type ShardDoneMarker, type ShardRunFigures } from './parallel/shard-output.js';
+export { joinShards, type JoinSummary } from './parallel/join-shards.js';
 
 // --- Peer benchmark support (issue 7): .npy writing for exchanging arrays with NumPy-based libraries
 export { encodeNpy, encodeNpyHeader, writeNpyFile, type NpyData, type NpyElementType } from './data/npy-writer.js';

@@ -5,6 +5,7 @@ import { registerTrainCommand } from './commands/train.js';
 import { registerDetectCommand } from './commands/detect.js';
 import { registerEvaluateCommand } from './commands/evaluate.js';
 import { registerExportCommand } from './commands/export.js';
+import { registerJoinCommand } from './commands/join.js';
 import { registerInspectCommand } from './commands/inspect.js';
 import { registerTuneCommand } from './commands/tune.js';
 import { EXIT_USAGE, exitCodeFor, formatError } from './messages.js';
@@ -21,6 +22,7 @@ export function buildProgram(): Command {
   registerCheckCommand(program);
   registerTrainCommand(program);
   registerDetectCommand(program);
+  registerJoinCommand(program);
   registerEvaluateCommand(program);
   registerTuneCommand(program);
   registerExportCommand(program);
