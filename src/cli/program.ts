@@ -7,6 +7,7 @@ import { registerEvaluateCommand } from './commands/evaluate.js';
 import { registerExportCommand } from './commands/export.js';
 import { registerInspectCommand } from './commands/inspect.js';
 import { registerTuneCommand } from './commands/tune.js';
+import { registerReportCommand } from './commands/report.js';
 import { EXIT_USAGE, exitCodeFor, formatError } from './messages.js';
 
 /** Builds the commander program with every command of DESIGN §2 (plus `check`). */
@@ -25,6 +26,7 @@ export function buildProgram(): Command {
   registerTuneCommand(program);
   registerExportCommand(program);
   registerInspectCommand(program);
+  registerReportCommand(program);
   registerDemoCommand(program);
   return program;
 }

@@ -6,6 +6,7 @@ import { heldOutCount, trainCascade, formatRate, type StageReport, type Training
 import { newCascadeModel, type CascadeModel, type Stage } from '../../cascade/cascade-model.js';
 import { loadBackgroundImages } from '../../data/backgrounds.js';
 import { loadPositiveWindows } from '../../data/positives.js';
+import { detectorCascadeFromModel } from '../../detect/detector-cascade.js';
 import { RectboostError, isRectboostError } from '../../errors.js';
 import { MAX_WINDOW_SIDE } from '../../features/enumerate-features.js';
 import { readCheckpoint, removeCheckpoint, writeCheckpoint, type TrainingFingerprint } from '../../io/checkpoint.js';
@@ -14,8 +15,9 @@ import { createBoostingPool, type BoostingPool } from '../../parallel/boosting-p
 import { parseChoice, parseInteger, parseNumber, parseWindowSize } from '../parse-options.js';
 import { ProgressLine, formatCount, formatDuration } from '../progress.js';
 import { renderTable } from '../text-table.js';
+import { addReportOptions, writeReportFromInputs, type ReportFlags } from './report.js';
 
-interface TrainFlags {
+interface TrainFlags extends ReportFlags {
   positives?: string;
   backgrounds?: string;
   out?: string;
@@ -44,7 +46,7 @@ const TOOL = 'rectboost 0.1.0';
 
 /** `rectboost train`: folders in, model JSON out, with checkpoints after every stage. */
 export function registerTrainCommand(program: Command): void {
-  program
+  addReportOptions(program
     .command('train')
     .description('train a cascade from a folder of positive patches and a folder of background images')
     .option('--positives <path>', 'folder of positive patch images (any size; resized to the window), or an annotation file of boxes on full images')
@@ -68,7 +70,7 @@ export function registerTrainCommand(program: Command): void {
     .option('--resume', 'continue from the checkpoint of an interrupted run with the same options and data')
     .option('--skip-bad', 'train without unreadable images instead of stopping')
     .option('--no-timing', 'leave wall-clock times out of the model, for byte-for-byte reproducible files')
-    .option('--quiet', 'no progress or stage lines on stderr')
+    .option('--quiet', 'no progress or stage lines on stderr'), '--report')
     .addHelpText(
       'after',
       `
@@ -221,7 +223,8 @@ async function runTrain(flags: TrainFlags): Promise<void> {
         await writeCheckpoint(checkpointDirectory, { model: buildModel(stages, 'interrupted'), fingerprint, stageSeconds });
       },
     });
-    await saveCascadeModel(out, buildModel(result.stages, result.stopMessage, result.meanPositive));
+    const model = buildModel(result.stages, result.stopMessage, result.meanPositive);
+    await saveCascadeModel(out, model);
     await removeCheckpoint(checkpointDirectory);
     progress.clear();
     if (flags.quiet !== true) {
@@ -229,6 +232,7 @@ async function runTrain(flags: TrainFlags): Promise<void> {
       process.stderr.write(`${result.stopMessage}\n`);
       process.stderr.write(`Model written to ${resolve(out)} in ${formatDuration((performance.now() - started) / 1000)}.\n`);
     }
+    await writeReportFromInputs(flags, { modelPath: out, detector: detectorCascadeFromModel(model), model, writtenBy: `${TOOL} train, ${new Date().toISOString()}` });
   } catch (error) {
     progress.clear();
     if (isRectboostError(error, 'interrupted')) {
