@@ -211,7 +211,7 @@ function provenanceSection(content: ReportContent): string {
     ['background images', data.backgroundImages],
     ['positives SHA-256', data.positivesHash],
     ['backgrounds SHA-256', data.backgroundsHash],
-    ...(training.timing ? [['created', training.timing.createdAt] as const, ['training time', `${training.timing.totalSeconds.toFixed(1)} s`] as const] : [['times', 'not recorded (--no-timing)'] as const]),
+    ...(training.timing ? [['created', training.timing.createdAt] as const, ['training time', `${training.timing.totalSeconds.toFixed(1)} s`] as const] : [['times', 'not recorded in the model'] as const]),
   ], 'pairs');
   body += `<h3>Options</h3>` + table(['option', 'value'], Object.entries(training.options).map(([k, v]) => [k, v === null ? '—' : String(v)]), 'pairs');
   return `<section id='provenance'><h2>Provenance</h2>${body}</section>`;

@@ -21,5 +21,18 @@ describe('rectboost demo at reduced size', () => {
     expect(panel.rivets).toBe(12);
     expect(panel.found).toBeGreaterThanOrEqual(9);
     expect(existsSync(join(out, 'report.json'))).toBe(true);
+    // The visual report and its PNG plots: three model charts (the model has training records) and three detection charts.
+    const page = readFileSync(join(out, 'report.html'), 'utf8');
+    expect(page).toContain('Cases to act on');
+    expect(readdirSync(join(out, 'plots')).sort()).toEqual([
+      'false-positive-rates.png', 'mining-effort.png', 'miss-rate.png', 'precision-recall.png', 'rejected-by-stage.png', 'weak-classifiers.png',
+    ]);
+  });
+
+  it('names the report page among the files it wrote', () => {
+    const out = mkdtempSync(join(tmpdir(), 'rectboost-demo-'));
+    const result = runCli(['demo', '--out', out, '--max-stages', '1', '--positives', '100'], { timeoutMs: 300_000 });
+    expect(result.status).toBe(0);
+    expect(result.stdout).toContain(`${join(out, 'report.html')}  (the visual report`);
   });
 });

@@ -12,7 +12,7 @@ export const CHROMIUM = '/usr/bin/chromium';
  * CI (where a missing browser must fail, not skip). Prints one line when skipping.
  */
 export function shouldRunBrowserTests(): boolean {
-  if (existsSync(CHROMIUM) || process.env['CI'] === 'true') return true;
+  if (existsSync(CHROMIUM) || Boolean(process.env['CI'])) return true;
   console.warn(`browser tests skipped: ${CHROMIUM} not found (apt-get install -y chromium)`);
   return false;
 }
