@@ -21,9 +21,10 @@ const named = args.filter((a, i) => a !== '--out' && i !== outAt + 1)[0];
 const scratch = mkdtempSync(join(tmpdir(), 'rectboost-shot-'));
 let page = named;
 if (page === undefined) {
-  const demo = spawnSync(process.execPath, [join(ROOT, 'bin/rectboost.js'), 'demo', '--out', join(scratch, 'demo'), '--quiet'], { stdio: 'inherit' });
+  // Run where the page will show the paths a user of `npm run demo` sees (demo-output/…).
+  const demo = spawnSync(process.execPath, [join(ROOT, 'bin/rectboost.js'), 'demo', '--out', 'demo-output', '--quiet'], { stdio: 'inherit', cwd: scratch });
   if (demo.status !== 0) throw new Error(`rectboost demo failed with status ${demo.status}`);
-  page = join(scratch, 'demo', 'report.html');
+  page = join(scratch, 'demo-output', 'report.html');
 }
 const context = await chromium.launchPersistentContext(join(scratch, 'profile'), {
   executablePath: '/usr/bin/chromium',

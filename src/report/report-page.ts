@@ -4,7 +4,7 @@ import type { DetectorCascade } from '../detect/detector-cascade.js';
 import type { DetectionEvaluation, ScanSummary } from '../metrics/detection-evaluation.js';
 import type { Box } from '../metrics/intersection-over-union.js';
 import type { PatchEvaluation } from '../metrics/patch-evaluation.js';
-import { detectionCharts, modelCharts, patchCharts, REPORT_COLOURS, stageRows, type NamedChart, type StagesToTabulate } from './report-charts.js';
+import { detectionCharts, modelCharts, patchCharts, REPORT_COLOURS, stageRows, type NamedChart, type StageRow, type StagesToTabulate } from './report-charts.js';
 import { escapeMarkup } from './svg-chart.js';
 
 /** A thumbnail of one case to act on, already encoded (a `data:image/png;base64,…` URI). */
@@ -113,6 +113,22 @@ function caseGrid(items: readonly CaseThumbnail[], total: number, stageCount: nu
   return `${shown}<div class='cases'>${items.map((item) => caseCard(item, stageCount, kind)).join('')}</div>`;
 }
 
+/** The per-stage table; the seconds column only when the model recorded times. */
+function stageTable(rows: readonly StageRow[]): string {
+  const optional = (value: number | undefined, format: (v: number) => string): string => (value === undefined ? '—' : format(value));
+  const timed = rows.some((r) => r.seconds !== undefined);
+  return table(
+    ['stage', 'weak', 'threshold', 'detection', 'false pos.', 'cumulative f.p.', 'negatives', 'windows / negative', 'boosting ended', ...(timed ? ['seconds'] : [])],
+    rows.map((r) => [
+      r.stage, r.weakClassifiers, r.threshold.toPrecision(6),
+      optional(r.detectionRate, (v) => percent(v, 2)), optional(r.falsePositiveRate, (v) => percent(v, 2)),
+      optional(r.cumulativeFalsePositiveRate, formatRate), optional(r.negatives, String), optional(r.windowsPerNegative, (v) => v.toFixed(1)),
+      r.stoppedBecause ?? '—', ...(timed ? [optional(r.seconds, (v) => v.toFixed(1))] : []),
+    ]),
+    'stages',
+  );
+}
+
 function modelSection(content: ReportContent, charts: readonly NamedChart[]): string {
   const model = content.model;
   const rows = stageRows(tabulated(content));
@@ -120,7 +136,6 @@ function modelSection(content: ReportContent, charts: readonly NamedChart[]): st
   const booster = typeof options['booster'] === 'string' ? options['booster'] : '—';
   const stopReason = model?.training?.stopReason;
   const weak = rows.reduce((n, r) => n + r.weakClassifiers, 0);
-  const optional = (value: number | undefined, format: (v: number) => string): string => (value === undefined ? '—' : format(value));
   return (
     `<section id='model'><h2>Model</h2>` +
     `<div class='figures'>` +
@@ -131,16 +146,7 @@ function modelSection(content: ReportContent, charts: readonly NamedChart[]): st
     figure('weak classifiers', String(weak)) +
     `</div>` +
     (stopReason === undefined ? '' : `<p class='stop'><strong>Why training stopped:</strong> ${escapeMarkup(stopReason)}</p>`) +
-    table(
-      ['stage', 'weak', 'threshold', 'detection', 'false pos.', 'cumulative f.p.', 'negatives', 'windows / negative', 'boosting ended', 'seconds'],
-      rows.map((r) => [
-        r.stage, r.weakClassifiers, r.threshold.toPrecision(6),
-        optional(r.detectionRate, (v) => percent(v, 2)), optional(r.falsePositiveRate, (v) => percent(v, 2)),
-        optional(r.cumulativeFalsePositiveRate, formatRate), optional(r.negatives, String), optional(r.windowsPerNegative, (v) => v.toFixed(1)),
-        r.stoppedBecause ?? '—', optional(r.seconds, (v) => v.toFixed(1)),
-      ]),
-      'stages',
-    ) +
+    stageTable(rows) +
     chartGrid(charts) +
     `</section>`
   );

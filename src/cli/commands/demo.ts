@@ -1,5 +1,5 @@
 import { availableParallelism } from 'node:os';
-import { basename, join, resolve } from 'node:path';
+import { basename, join, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Command } from 'commander';
 import { formatRate, trainCascade } from '../../cascade/build-cascade.js';
@@ -184,9 +184,10 @@ async function runDemo(flags: DemoFlags): Promise<void> {
   };
   await writeFileAtomic(join(out, 'report.json'), `${JSON.stringify(report, null, 2)}\n`);
   const page = await assembleReportContent({
-    title: 'rectboost demo: rivet heads on sheet-metal panels', modelPath, detector: detectorCascadeFromModel(model), model,
-    writtenBy: `rectboost demo, ${new Date().toISOString()}`,
-    detection: { truthPath, imagePaths: truth.map((t) => t.image), entries, evaluation, speed: summarizeScans(statistics, scanMilliseconds), scan: {} },
+    // Paths as the user would type them: the model relative to the working folder, the truth inside the package.
+    title: 'rectboost demo: rivet heads on sheet-metal panels', modelPath: relative(process.cwd(), modelPath) || modelPath,
+    detector: detectorCascadeFromModel(model), model, writtenBy: `rectboost demo, ${new Date().toISOString()}`,
+    detection: { truthPath: relative(join(DEMO_DATA, '..'), truthPath), imagePaths: truth.map((t) => t.image), entries, evaluation, speed: summarizeScans(statistics, scanMilliseconds), scan: {} },
   });
   await writeReportFiles(page, join(out, 'report.html'), join(out, 'plots'));
   progress.clear();
