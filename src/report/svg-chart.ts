@@ -14,7 +14,7 @@ export interface ChartSeries {
   readonly label: string;
   readonly colour: string;
   readonly points: ReadonlyArray<readonly [x: number, y: number]>;
-  /** Draw a dot at every point as well as the line (for short series). Default false. */
+  /** Draw a dot at every point as well as the line (for short series). Default false; a one-point series always gets its dot. */
   readonly dots?: boolean;
 }
 
@@ -216,7 +216,8 @@ export function lineChart(spec: LineChartSpec): string {
     body +=
       `<polyline class='series' data-series='${escapeMarkup(series.label)}' data-point-count='${series.points.length}' points='${vertices.join(' ')}' ` +
       `fill='none' stroke='${series.colour}' stroke-width='2.2' stroke-linejoin='round' stroke-linecap='round'/>`;
-    if (series.dots === true) {
+    // A lone point draws no line, so it always gets its dot.
+    if (series.dots === true || series.points.length === 1) {
       for (const v of vertices) {
         const [cx, cy] = v.split(',');
         body += `<circle cx='${cx}' cy='${cy}' r='3' fill='#ffffff' stroke='${series.colour}' stroke-width='1.8'/>`;

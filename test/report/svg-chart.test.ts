@@ -57,6 +57,11 @@ describe('lineChart', () => {
     expect(c).toEqual([542, 290]);
   });
 
+  it('marks a lone point with a dot, since a one-vertex line is invisible', () => {
+    // Series 'two' has one point; series 'one' (three points, dots off) has none.
+    expect(svg.match(/<circle /g)).toHaveLength(1);
+  });
+
   it('escapes text', () => {
     expect(svg).toContain('A &lt;title&gt; &amp; more');
     expect(svg).not.toContain('<title> &');

@@ -46,16 +46,16 @@ export interface EvaluationRun {
 
 /**
  * Runs the evaluation the flags ask for, or returns null when they name no
- * inputs and `required` is false.
+ * inputs and `required` is false; `command` names the caller in messages.
  * @throws RectboostError `invalid-option` for a wrong combination of inputs.
  */
-export async function runEvaluation(modelPath: string, detector: DetectorCascade, options: EvaluationFlags, required: boolean): Promise<EvaluationRun | null> {
+export async function runEvaluation(command: string, modelPath: string, detector: DetectorCascade, options: EvaluationFlags, required: boolean): Promise<EvaluationRun | null> {
   const iou = parseNumber('--iou', options.iou, 0, 1);
   const parsed = parseScanOptions(options);
   const patchMode = options.positives !== undefined || options.negatives !== undefined;
   if (!required && !patchMode && options.truth === undefined) return null;
   if (patchMode === (options.truth !== undefined) || (patchMode && (options.positives === undefined || options.negatives === undefined))) {
-    throw new RectboostError('invalid-option', 'evaluate needs either --truth FILE, or both --positives DIR and --negatives DIR.');
+    throw new RectboostError('invalid-option', `${command} needs either --truth FILE, or both --positives DIR and --negatives DIR.`);
   }
   const lines: string[] = [];
   if (patchMode) {
@@ -121,7 +121,7 @@ export function registerEvaluateCommand(program: Command): void {
     .addHelpText('after', '\nExamples:\n  rectboost evaluate model.json --truth scenes/truth.jsonl --json report.json\n  rectboost evaluate model.json --truth scenes/truth.jsonl --report report.html --plots plots\n  rectboost evaluate model.json --positives patches/rivets --negatives patches/panels\n')
     .action(async (modelPath: string, options: EvaluationFlags & ReportFlags & { json?: string }) => {
       const loaded = await loadCascadeFile(modelPath);
-      const run = (await runEvaluation(modelPath, loaded.detector, options, true))!;
+      const run = (await runEvaluation('evaluate', modelPath, loaded.detector, options, true))!;
       process.stdout.write(`${run.lines.join('\n')}\n`);
       if (options.json !== undefined) await writeFileAtomic(options.json, `${JSON.stringify(run.json, null, 2)}\n`);
       await writeReportFromInputs(options, { modelPath, ...loaded, writtenBy: `rectboost evaluate, ${new Date().toISOString()}`, ...run.reportParts });

@@ -40,7 +40,7 @@ export function registerReportCommand(program: Command): void {
     .addHelpText('after', '\nExamples:\n  rectboost report model.json --out model.html\n  rectboost report model.json --truth scenes/truth.jsonl --out report.html --plots plots\n  rectboost report model.json --positives patches/rivets --negatives patches/panels --out patches.html\n')
     .action(async (modelPath: string, options: EvaluationFlags & { out?: string; plots?: string }) => {
       const loaded = await loadCascadeFile(modelPath);
-      const run = await runEvaluation(modelPath, loaded.detector, options, false);
+      const run = await runEvaluation('report', modelPath, loaded.detector, options, false);
       const flags: ReportFlags = { report: options.out ?? 'report.html', ...(options.plots === undefined ? {} : { plots: options.plots }) };
       await writeReportFromInputs(flags, { modelPath, ...loaded, writtenBy: `rectboost report, ${new Date().toISOString()}`, ...(run?.reportParts ?? {}) });
     });
