@@ -146,7 +146,7 @@ export { loadBackgroundImages, type LoadedBackgrounds } from './data/backgrounds
 export { readImagesChecked, refuseBadImages, type CheckedImages, type ReadImagesOptions } from './data/read-images.js';
 
 // --- Visual report (issue 14): SVG charts, the offline HTML page, the cases to act on, PNG plots
-export { findCasesToReview, type CasesToReview, type FalseAlarm, type MissedObject } from './report/cases.js';
+export { findCasesToReview, findPatchCases, type CaseLists, type CasesToReview, type PatchCasesToReview, type PatchCase, type FalseAlarm, type MissedObject } from './report/cases.js';
 export { windowDepthNearBox, type WindowDepth } from './report/window-depth.js';
 export { lineChart, barChart, type LineChartSpec, type BarChartSpec, type ChartSeries } from './report/svg-chart.js';
 export {

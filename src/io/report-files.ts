@@ -7,7 +7,9 @@ import { cropGrayImage, type GrayImage } from '../image/gray-image.js';
 import type { Box } from '../metrics/intersection-over-union.js';
 import type { DetectionEvaluation, ScanSummary } from '../metrics/detection-evaluation.js';
 import type { ImageDetectionsAndTruth } from '../metrics/match-detections.js';
-import { findCasesToReview, type CasesToReview } from '../report/cases.js';
+import { findCasesToReview, findPatchCases, type CasesToReview, type PatchCase } from '../report/cases.js';
+import { cascadeDepthScores, type PatchEvaluation } from '../metrics/patch-evaluation.js';
+import type { WindowSamples } from '../features/window-samples.js';
 import { reportCharts, renderReportPage, type CaseThumbnail, type DetectionSection, type PatchSection, type ReportContent } from '../report/report-page.js';
 import { windowDepthNearBox } from '../report/window-depth.js';
 import { writeFileAtomic } from './atomic-write.js';
@@ -130,13 +132,42 @@ export interface ReportInputs {
     readonly speed?: ScanSummary;
     readonly scan: ScanOptions;
   };
-  readonly patches?: PatchSection;
+  readonly patches?: {
+    readonly positivesPath: string;
+    readonly negativesPath: string;
+    readonly evaluation: PatchEvaluation;
+    /** The evaluated patches: packed samples, the windows themselves and their files, in the same order. */
+    readonly positives: LabelledPatches;
+    readonly negatives: LabelledPatches;
+  };
+}
+
+/** Patches of one label as evaluated: samples for the cascade, windows for thumbnails, files for captions. */
+export interface LabelledPatches {
+  readonly samples: WindowSamples;
+  readonly windows: readonly GrayImage[];
+  readonly sources: readonly string[];
+}
+
+/** Thumbnails of patch-level cases: the whole window, outlined, captioned with its file and depth. */
+async function patchThumbnails(cases: readonly PatchCase[], patches: LabelledPatches, colour: RgbColour, withScore: boolean): Promise<CaseThumbnail[]> {
+  const thumbnails: CaseThumbnail[] = [];
+  for (const item of cases) {
+    const window = patches.windows[item.sample]!;
+    const box: Box = [0, 0, window.width, window.height];
+    thumbnails.push({
+      file: patches.sources[item.sample] ?? `patch ${item.sample + 1}`, box, thumbnail: pngDataUri(await boxThumbnailPng(window, box, colour)),
+      stagesPassed: item.stagesPassed, ...(withScore ? { score: item.score } : {}),
+    });
+  }
+  return thumbnails;
 }
 
 /**
  * The content of a report page: picks the cases to act on with the
- * evaluation's own IoU threshold (findCasesToReview), crops their thumbnails,
- * and draws the feature sheet of a full model.
+ * evaluation's own IoU threshold (findCasesToReview) or, for patches, with the
+ * cascade's own decision (findPatchCases), makes their thumbnails, and draws
+ * the feature sheet of a full model.
  */
 export async function assembleReportContent(inputs: ReportInputs): Promise<ReportContent> {
   let detection: DetectionSection | undefined;
@@ -149,6 +180,16 @@ export async function assembleReportContent(inputs: ReportInputs): Promise<Repor
       missed: thumbnails.missed, missedTotal: cases.missedTotal, falseAlarms: thumbnails.falseAlarms, falseAlarmTotal: cases.falseAlarmTotal,
     };
   }
+  let patches: PatchSection | undefined;
+  if (inputs.patches !== undefined) {
+    const p = inputs.patches;
+    const cases = findPatchCases(cascadeDepthScores(inputs.detector, p.positives.samples), cascadeDepthScores(inputs.detector, p.negatives.samples), inputs.detector.stages.length);
+    patches = {
+      positivesPath: p.positivesPath, negativesPath: p.negativesPath, positives: p.positives.samples.count, negatives: p.negatives.samples.count, evaluation: p.evaluation,
+      missed: await patchThumbnails(cases.missed, p.positives, TRUTH_COLOUR, false), missedTotal: cases.missedTotal,
+      falseAlarms: await patchThumbnails(cases.falseAlarms, p.negatives, DETECTION_COLOUR, true), falseAlarmTotal: cases.falseAlarmTotal,
+    };
+  }
   return {
     title: inputs.title,
     modelPath: inputs.modelPath,
@@ -156,6 +197,6 @@ export async function assembleReportContent(inputs: ReportInputs): Promise<Repor
     writtenBy: inputs.writtenBy,
     ...(inputs.model === undefined ? {} : { model: inputs.model, featureSheet: await featureSheetDataUri(inputs.model) }),
     ...(detection === undefined ? {} : { detection }),
-    ...(inputs.patches === undefined ? {} : { patches: inputs.patches }),
+    ...(patches === undefined ? {} : { patches }),
   };
 }

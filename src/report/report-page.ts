@@ -37,6 +37,11 @@ export interface PatchSection {
   readonly positives: number;
   readonly negatives: number;
   readonly evaluation: PatchEvaluation;
+  /** Rejected positive patches and accepted negative ones, when the caller picked them. */
+  readonly missed?: readonly CaseThumbnail[];
+  readonly missedTotal?: number;
+  readonly falseAlarms?: readonly CaseThumbnail[];
+  readonly falseAlarmTotal?: number;
 }
 
 /** Everything one report page shows; all optional parts may be absent. */
@@ -180,7 +185,7 @@ function detectionSection(section: DetectionSection, charts: readonly NamedChart
   );
 }
 
-function patchSection(section: PatchSection, charts: readonly NamedChart[]): string {
+function patchSection(section: PatchSection, charts: readonly NamedChart[], stageCount: number): string {
   const e = section.evaluation;
   return (
     `<section id='patches'><h2>Evaluation on labelled patches</h2>` +
@@ -196,6 +201,13 @@ function patchSection(section: PatchSection, charts: readonly NamedChart[]): str
       e.stages.map((s) => [s.stage + 1, s.positivesReaching, percent(s.positivePassRate), s.negativesReaching, percent(s.negativePassRate)]),
       'stages',
     ) +
+    (section.missed === undefined || section.falseAlarms === undefined
+      ? ''
+      : `<h3><span class='swatch truth'></span>Rejected positive patches <span class='count'>${section.missedTotal ?? section.missed.length}</span></h3>` +
+        caseGrid(section.missed, section.missedTotal ?? section.missed.length, stageCount, 'missed', 'The cascade accepts every positive patch.') +
+        `<h3><span class='swatch alarm'></span>Accepted negative patches <span class='count'>${section.falseAlarmTotal ?? section.falseAlarms.length}</span></h3>` +
+        `<p class='muted'>Highest cascade depth score first (stages passed + a margin term in [0, 1)).</p>` +
+        caseGrid(section.falseAlarms, section.falseAlarmTotal ?? section.falseAlarms.length, stageCount, 'false-alarm', 'The cascade rejects every negative patch.')) +
     `</section>`
   );
 }
@@ -232,7 +244,14 @@ export function reportData(content: ReportContent): unknown {
     stages: stageRows(tabulated(content)),
     ...(content.detection ? { detection: { ...content.detection.evaluation, missedTotal: content.detection.missedTotal, falseAlarmTotal: content.detection.falseAlarmTotal } } : {}),
     ...(content.patches
-      ? { patches: { ...content.patches.evaluation, roc: { falsePositiveRate: Array.from(content.patches.evaluation.roc.falsePositiveRate), truePositiveRate: Array.from(content.patches.evaluation.roc.truePositiveRate), area: content.patches.evaluation.roc.area } } }
+      ? {
+          patches: {
+            ...content.patches.evaluation,
+            roc: { falsePositiveRate: Array.from(content.patches.evaluation.roc.falsePositiveRate), truePositiveRate: Array.from(content.patches.evaluation.roc.truePositiveRate), area: content.patches.evaluation.roc.area },
+            ...(content.patches.missedTotal === undefined ? {} : { missedTotal: content.patches.missedTotal }),
+            ...(content.patches.falseAlarmTotal === undefined ? {} : { falseAlarmTotal: content.patches.falseAlarmTotal }),
+          },
+        }
       : {}),
   };
 }
@@ -278,7 +297,7 @@ export function renderReportPage(content: ReportContent): string {
     `<nav>${links.map(([id, label]) => `<a href='#${id}'>${label}</a>`).join('')}</nav><main>` +
     modelSection(content, charts.model) +
     (content.detection ? detectionSection(content.detection, charts.detection, stageCount) : '') +
-    (content.patches ? patchSection(content.patches, charts.patches) : '') +
+    (content.patches ? patchSection(content.patches, charts.patches, stageCount) : '') +
     provenanceSection(content) +
     `<footer>${escapeMarkup(content.writtenBy)}</footer></main>` +
     `<script type='application/json' id='${REPORT_DATA_ID}'>${data}</script></body></html>\n`

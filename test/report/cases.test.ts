@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { evaluateDetections } from '../../src/metrics/detection-evaluation.js';
-import { findCasesToReview } from '../../src/report/cases.js';
+import { findCasesToReview, findPatchCases } from '../../src/report/cases.js';
 
 // Two images worked by hand with VOC matching at IoU ≥ 0.5:
 // image 0: truth A = [0,0,10,10], B = [50,50,10,10]; detections d0 [0,0,10,10] score 0.9 (IoU 1 with A: found),
@@ -42,5 +42,18 @@ describe('findCasesToReview', () => {
     expect(cases.missed).toHaveLength(1);
     expect(cases.falseAlarms).toEqual([{ image: 0, box: [100, 100, 10, 10], score: 0.95 }]);
     expect([cases.missedTotal, cases.falseAlarmTotal]).toEqual([2, 3]);
+  });
+});
+
+describe('findPatchCases', () => {
+  it('takes positives that stop before the last stage and negatives that pass every stage, the latter by score', () => {
+    // A 3-stage cascade. Positives: sample 1 stops after 2 stages (missed), sample 0 passes all.
+    // Negatives: samples 0 and 2 pass all 3 stages (scores 3.2 and 3.5: sample 2 first); sample 1 stops at 1.
+    const positives = { scores: Float64Array.from([3.1, 1.6]), stagesPassed: Int32Array.from([3, 2]) };
+    const negatives = { scores: Float64Array.from([3.2, 0.4, 3.5]), stagesPassed: Int32Array.from([3, 1, 3]) };
+    const cases = findPatchCases(positives, negatives, 3);
+    expect(cases.missed).toEqual([{ sample: 1, stagesPassed: 2, score: 1.6 }]);
+    expect(cases.falseAlarms.map((c) => c.sample)).toEqual([2, 0]);
+    expect([cases.missedTotal, cases.falseAlarmTotal]).toEqual([1, 2]);
   });
 });

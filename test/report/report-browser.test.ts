@@ -34,7 +34,10 @@ interface PageFacts {
   charts: Record<string, { curves: number[]; bars: number }>;
   thumbnails: number[];
   featureSheetWidth: number;
-  data: { detection?: EvaluateJson & { missedTotal: number; falseAlarmTotal: number }; patches?: { roc: { falsePositiveRate: number[] } } };
+  data: {
+    detection?: EvaluateJson & { missedTotal: number; falseAlarmTotal: number };
+    patches?: { roc: { falsePositiveRate: number[] }; detectionRate: number; falsePositiveRate: number; missedTotal: number; falseAlarmTotal: number };
+  };
   figures: Record<string, string>;
   text: string;
 }
@@ -94,13 +97,17 @@ describe.skipIf(!shouldRunBrowserTests())('the HTML report in headless chromium'
     const model = JSON.parse(readFileSync(MODEL, 'utf8')) as { stages: unknown[] };
     writeFileSync(path('one-stage.json'), JSON.stringify({ ...model, stages: model.stages.slice(0, 1) }));
     cli(['report', path('one-stage.json'), '--out', path('one-stage.html')]);
-    // 5. Patch mode: 30 rivet patches against 30 windows cut from two bare panels.
+    // 5. Patch mode: 30 rivet patches and 2 panel windows labelled as rivets, against 30 panel windows and
+    //    3 rivet patches labelled as panels, so that there are rejected positives and accepted negatives.
     mkdirSync(path('rivets'));
     mkdirSync(path('panels'));
-    for (let k = 1; k <= 30; k++) copyFileSync(join(ROOT, `demo-patches/positives/rivet-${String(k).padStart(4, '0')}.png`), path(`rivets/r${k}.png`));
-    for (let k = 0; k < 30; k++) {
+    const rivet = (k: number): string => join(ROOT, `demo-patches/positives/rivet-${String(k).padStart(4, '0')}.png`);
+    for (let k = 1; k <= 30; k++) copyFileSync(rivet(k), path(`rivets/r${k}.png`));
+    for (let k = 31; k <= 33; k++) copyFileSync(rivet(k), path(`panels/mislabelled-r${k}.png`));
+    for (let k = 0; k < 32; k++) {
       const panel = join(ROOT, `demo-patches/backgrounds/panel-0${1 + (k % 2)}.png`);
-      await sharp(panel).extract({ left: 10 + 37 * (k % 8), top: 10 + 50 * Math.floor(k / 8), width: 24, height: 24 }).png().toFile(path(`panels/n${k}.png`));
+      const target = k < 30 ? path(`panels/n${k}.png`) : path(`rivets/mislabelled-n${k}.png`);
+      await sharp(panel).extract({ left: 10 + 37 * (k % 8), top: 10 + 50 * Math.floor(k / 8), width: 24, height: 24 }).png().toFile(target);
     }
     cli(['report', MODEL, '--positives', path('rivets'), '--negatives', path('panels'), '--out', path('patches.html')]);
 
@@ -183,11 +190,19 @@ describe.skipIf(!shouldRunBrowserTests())('the HTML report in headless chromium'
     expect(one.data.detection).toBeUndefined();
   });
 
-  it('draws the ROC curve and per-stage pass rates of a patch evaluation', () => {
-    const { charts, data } = opened.get('patches')!.facts;
-    expect(charts['roc']!.curves).toEqual([data.patches!.roc.falsePositiveRate.length]);
+  it('draws the ROC curve and per-stage pass rates of a patch evaluation, and shows its rejected positives and accepted negatives', () => {
+    const { charts, data, thumbnails, text } = opened.get('patches')!.facts;
+    const patches = data.patches!;
+    expect(charts['roc']!.curves).toEqual([patches.roc.falsePositiveRate.length]);
     // Two bars (positives, negatives) per stage.
     expect(charts['stage-pass-rates']!.bars).toBe(2 * STAGES);
+    // Case counts follow from the cascade's own rates: 32 positives and 33 negatives were evaluated.
+    expect(patches.missedTotal).toBe(Math.round(32 * (1 - patches.detectionRate)));
+    expect(patches.falseAlarmTotal).toBe(Math.round(33 * patches.falsePositiveRate));
+    expect(patches.missedTotal + patches.falseAlarmTotal).toBeGreaterThan(0);
+    expect(thumbnails).toHaveLength(patches.missedTotal + patches.falseAlarmTotal);
+    expect(thumbnails.every((width) => width > 0)).toBe(true);
+    expect(text).toMatch(/mislabelled-/);
   });
 
   it('writes the same charts as PNG plots at the SVG size', async () => {

@@ -59,12 +59,14 @@ export async function runEvaluation(command: string, modelPath: string, detector
   }
   const lines: string[] = [];
   if (patchMode) {
-    const load = async (folder: string) => packWindowSamples(
-      (await loadPositiveWindows(folder, { windowWidth: detector.windowWidth, windowHeight: detector.windowHeight, mirror: false, skipBad: false })).windows,
-      detector.windowWidth, detector.windowHeight,
-    );
-    const positives = await load(options.positives!);
-    const negatives = await load(options.negatives!);
+    const load = async (folder: string) => {
+      const loaded = await loadPositiveWindows(folder, { windowWidth: detector.windowWidth, windowHeight: detector.windowHeight, mirror: false, skipBad: false });
+      return { samples: packWindowSamples(loaded.windows, detector.windowWidth, detector.windowHeight), windows: loaded.windows, sources: loaded.sources };
+    };
+    const positivePatches = await load(options.positives!);
+    const negativePatches = await load(options.negatives!);
+    const positives = positivePatches.samples;
+    const negatives = negativePatches.samples;
     const result = evaluatePatches(detector, positives, negatives);
     const json = { mode: 'patches', model: modelPath, positives: positives.count, negatives: negatives.count, ...result, roc: {
       thresholds: Array.from(result.roc.thresholds), truePositiveRate: Array.from(result.roc.truePositiveRate),
@@ -75,7 +77,7 @@ export async function runEvaluation(command: string, modelPath: string, detector
     for (const s of result.stages) {
       lines.push(`${String(s.stage + 1).padStart(5)}  ${String(s.positivesReaching).padStart(9)}  ${rate(s.positivePassRate).padStart(8)}  ${String(s.negativesReaching).padStart(9)}  ${rate(s.negativePassRate).padStart(8)}`);
     }
-    const patches = { positivesPath: options.positives!, negativesPath: options.negatives!, positives: positives.count, negatives: negatives.count, evaluation: result };
+    const patches = { positivesPath: options.positives!, negativesPath: options.negatives!, evaluation: result, positives: positivePatches, negatives: negativePatches };
     return { json, lines, reportParts: { patches } };
   }
   const truth = await loadAnnotations(options.truth!);
