@@ -11,6 +11,7 @@ cd "$(dirname "$0")/.."
 # Debian package, and the command that shows it is installed.
 TEST_PACKAGES=(
   slurm-wlm:slurmctld munge:munged   # test/slurm: a one-node Slurm cluster for the job-array recipe
+  chromium:chromium                  # test/report: the report page in a real browser
 )
 problems=0
 note() { echo "prepare-tests: $*" >&2; problems=$((problems + 1)); }

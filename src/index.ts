@@ -152,3 +152,18 @@ export { readCheckpoint, writeCheckpoint, removeCheckpoint, type Checkpoint, typ
 export { loadPositiveWindows, type LoadedPositives, type PositiveLoadOptions } from './data/positives.js';
 export { loadBackgroundImages, type LoadedBackgrounds } from './data/backgrounds.js';
 export { readImagesChecked, refuseBadImages, type CheckedImages, type ReadImagesOptions } from './data/read-images.js';
+
+// --- Visual report (issue 14): SVG charts, the offline HTML page, the cases to act on, PNG plots
+export { findCasesToReview, findPatchCases, type CaseLists, type CasesToReview, type PatchCasesToReview, type PatchCase, type FalseAlarm, type MissedObject } from './report/cases.js';
+export { windowDepthNearBox, type WindowDepth } from './report/window-depth.js';
+export { lineChart, barChart, type LineChartSpec, type BarChartSpec, type ChartSeries } from './report/svg-chart.js';
+export {
+  renderReportPage,
+  reportCharts,
+  REPORT_DATA_ID,
+  type ReportContent,
+  type CaseThumbnail,
+  type DetectionSection,
+  type PatchSection,
+} from './report/report-page.js';
+export { assembleReportContent, writeReportFiles, boxThumbnailPng, svgToPng, type ReportInputs } from './io/report-files.js';

@@ -8,6 +8,7 @@ import { registerExportCommand } from './commands/export.js';
 import { registerJoinCommand } from './commands/join.js';
 import { registerInspectCommand } from './commands/inspect.js';
 import { registerTuneCommand } from './commands/tune.js';
+import { registerReportCommand } from './commands/report.js';
 import { EXIT_USAGE, exitCodeFor, formatError } from './messages.js';
 
 /** Builds the commander program with every command of DESIGN §2 (plus `check`). */
@@ -27,6 +28,7 @@ export function buildProgram(): Command {
   registerTuneCommand(program);
   registerExportCommand(program);
   registerInspectCommand(program);
+  registerReportCommand(program);
   registerDemoCommand(program);
   return program;
 }

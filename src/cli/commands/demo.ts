@@ -1,5 +1,5 @@
 import { availableParallelism } from 'node:os';
-import { basename, join, resolve } from 'node:path';
+import { basename, join, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Command } from 'commander';
 import { formatRate } from '../../cascade/build-cascade.js';
@@ -9,7 +9,9 @@ import { writeFileAtomic } from '../../io/atomic-write.js';
 import { DETECTION_COLOUR, TRUTH_COLOUR, drawBoxes } from '../../io/draw-boxes.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
 import { trainModel } from '../../io/train-model.js';
-import { evaluateDetections } from '../../metrics/detection-evaluation.js';
+import { evaluateDetections, summarizeScans } from '../../metrics/detection-evaluation.js';
+import type { ScanStatistics } from '../../detect/scan-image.js';
+import { assembleReportContent, writeReportFiles } from '../../io/report-files.js';
 import type { Box } from '../../metrics/intersection-over-union.js';
 import { detectFiles } from '../../parallel/detect-files.js';
 import { parseInteger } from '../parse-options.js';
@@ -122,12 +124,16 @@ async function runDemo(flags: DemoFlags): Promise<void> {
   const lines: string[] = [];
   const entries: Array<{ detections: Array<{ box: Box; score: number }>; truth: readonly Box[] }> = [];
   const perScene: Array<[string, number, number, number]> = [];
+  const statistics: ScanStatistics[] = [];
+  let scanMilliseconds = 0;
   let index = 0;
   for await (const outcome of detectFiles(detector, truth.map((t) => t.image), { workers, merge: { method: 'mean', overlap: 0.5, minSupport: 3 } })) {
     if (outcome.kind === 'failed') throw outcome.error;
     const sceneTruth = truth[index]!.boxes;
     index++;
     lines.push(detectionLine(outcome.result));
+    statistics.push(outcome.result.statistics);
+    scanMilliseconds += outcome.result.milliseconds;
     entries.push({ detections: outcome.result.detections.map((d) => ({ box: d.box, score: d.score })), truth: sceneTruth });
     const found = evaluateDetections([{ detections: outcome.result.detections.map((d) => ({ box: d.box, score: d.score })), truth: sceneTruth }]);
     perScene.push([basename(outcome.result.image), sceneTruth.length, found.truePositives, outcome.result.detections.length - found.truePositives]);
@@ -151,6 +157,13 @@ async function runDemo(flags: DemoFlags): Promise<void> {
     scenes: perScene.map(([image, rivets, found, falseAlarms]) => ({ image, rivets, found, falseAlarms })),
   };
   await writeFileAtomic(join(out, 'report.json'), `${JSON.stringify(report, null, 2)}\n`);
+  const page = await assembleReportContent({
+    // Paths as the user would type them: the model relative to the working folder, the truth inside the package.
+    title: 'rectboost demo: rivet heads on sheet-metal panels', modelPath: relative(process.cwd(), modelPath) || modelPath,
+    detector: detectorCascadeFromModel(model), model, writtenBy: `rectboost demo, ${new Date().toISOString()}`,
+    detection: { truthPath: relative(join(DEMO_DATA, '..'), truthPath), imagePaths: truth.map((t) => t.image), entries, evaluation, speed: summarizeScans(statistics, scanMilliseconds), scan: {} },
+  });
+  await writeReportFiles(page, join(out, 'report.html'), join(out, 'plots'));
   progress.clear();
   if (flags.quiet !== true) {
     process.stdout.write(`3. evaluate (IoU ≥ 0.5):\n`);
@@ -164,5 +177,7 @@ async function runDemo(flags: DemoFlags): Promise<void> {
     process.stdout.write(`   ${join(out, 'detections.jsonl')}  (one JSON line per panel)\n`);
     process.stdout.write(`   ${join(out, 'scenes')}/  (panels with boxes drawn)\n`);
     process.stdout.write(`   ${join(out, 'report.json')}  (the figures above)\n`);
+    process.stdout.write(`   ${join(out, 'report.html')}  (the visual report: open it in a browser, works offline)\n`);
+    process.stdout.write(`   ${join(out, 'plots')}/  (its charts as PNG files)\n`);
   }
 }

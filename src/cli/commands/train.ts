@@ -3,13 +3,15 @@ import type { Command } from 'commander';
 import type { BoosterKind } from '../../boost/booster.js';
 import { formatRate, type StageReport } from '../../cascade/build-cascade.js';
 import { RectboostError } from '../../errors.js';
+import { detectorCascadeFromModel } from '../../detect/detector-cascade.js';
 import { MAX_WINDOW_SIDE } from '../../features/enumerate-features.js';
-import { trainModel, type TrainedModel, type TrainModelEvent, type TrainModelOptions } from '../../io/train-model.js';
+import { TOOL_NAME, trainModel, type TrainedModel, type TrainModelEvent, type TrainModelOptions } from '../../io/train-model.js';
 import { parseChoice, parseInteger, parseNumber, parseWindowSize } from '../parse-options.js';
 import { ProgressLine, formatCount, formatDuration } from '../progress.js';
 import { renderTable } from '../text-table.js';
+import { addReportOptions, writeReportFromInputs, type ReportFlags } from './report.js';
 
-interface TrainFlags {
+interface TrainFlags extends ReportFlags {
   positives?: string;
   backgrounds?: string;
   out?: string;
@@ -37,7 +39,7 @@ interface TrainFlags {
 
 /** `rectboost train`: folders in, model JSON out, with checkpoints after every stage. */
 export function registerTrainCommand(program: Command): void {
-  program
+  addReportOptions(program
     .command('train')
     .description('train a cascade from a folder of positive patches and a folder of background images')
     .option('--positives <path>', 'folder of positive patch images (any size; resized to the window), or an annotation file of boxes on full images')
@@ -62,7 +64,7 @@ export function registerTrainCommand(program: Command): void {
     .option('--keep-going', 'train on after a stage uses --max-weak weak classifiers without reaching --stage-false-positive (default: stop there and save)')
     .option('--skip-bad', 'train without unreadable images instead of stopping')
     .option('--no-timing', 'leave wall-clock times out of the model, for byte-for-byte reproducible files')
-    .option('--quiet', 'no progress or stage lines on stderr')
+    .option('--quiet', 'no progress or stage lines on stderr'), '--report')
     .addHelpText(
       'after',
       `
@@ -150,6 +152,7 @@ async function runTrain(flags: TrainFlags): Promise<void> {
     process.stderr.write(`${result.stopMessage}\n`);
     process.stderr.write(`Model written to ${resolve(out)} in ${formatDuration(trained.seconds)}.\n`);
   }
+  await writeReportFromInputs(flags, { modelPath: out, detector: detectorCascadeFromModel(trained.model), model: trained.model, writtenBy: `${TOOL_NAME} train, ${new Date().toISOString()}` });
 }
 
 function showEvent(progress: ProgressLine, event: TrainModelEvent, options: TrainModelOptions): void {
