@@ -1,5 +1,6 @@
 import seedrandom from 'seedrandom';
 import type { BoosterKind } from '../boost/booster.js';
+import { stageBuffersForRun, type StageBuffers } from '../boost/stage-buffers.js';
 import { trainStage } from '../boost/train-stage.js';
 import type { BoostingPool } from '../parallel/boosting-pool.js';
 import { checkInteger, checkNumber, checkOpenInterval, checkThat } from '../check.js';
@@ -121,6 +122,12 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
   const backgrounds = new BackgroundWindows(options.backgrounds, windowWidth, windowHeight);
   const stages: Stage[] = [...(options.completedStages ?? [])];
   const reports: StageReport[] = stages.map((stage, stageIndex) => reportOfRecordedStage(stage, stageIndex, stages));
+  // One response table for the whole run, sized for the largest stage (every training
+  // positive plus a full set of negatives) and reused by each stage, so peak memory
+  // does not grow with the number of stages; --memory caps it.
+  let buffers: StageBuffers | undefined;
+  const runBuffers = (): StageBuffers =>
+    (buffers ??= stageBuffersForRun(features, windowWidth, windowHeight, training.length + options.negativesPerStage, options.memoryBytes, options.pool !== undefined));
   const stop = (): void => {
     if (options.shouldStop?.()) throw new RectboostError('interrupted', 'Training was interrupted.');
   };
@@ -179,6 +186,7 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
       maxFalsePositiveRate: options.stageFalsePositiveRate,
       maxWeakClassifiers: options.maxWeakClassifiers,
       memoryBytes: options.memoryBytes,
+      buffers: runBuffers(),
       random: seedrandom(`${options.seed}:features:${stageIndex}`),
       ...(options.pool === undefined ? {} : { pool: options.pool }),
       onRound: (round) => {
