@@ -1,6 +1,8 @@
 import { checkInteger, checkNumber, checkOneOf, checkOpenInterval, checkThat } from '../check.js';
 import type { Stage, StageTrainingRecord, WeakClassifier } from '../cascade/cascade-model.js';
-import { compileFeatures, evaluateCompiledFeature } from '../features/compiled-features.js';
+import { detectorWeakClassifier } from '../detect/detector-cascade.js';
+import { stageSampleScores } from '../detect/window-list.js';
+import { compileFeatures } from '../features/compiled-features.js';
 import type { HaarFeature } from '../features/haar-feature.js';
 import type { WindowSamples } from '../features/window-samples.js';
 import type { BoostingPool } from '../parallel/boosting-pool.js';
@@ -172,7 +174,6 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
   const weakClassifiers: WeakClassifier[] = [];
   const negativeScores = new Float64Array(negatives.count);
   const validationScores = new Float64Array(validationPositives.count);
-  const validationStride = validationPositives.windowWidth + 1;
   let threshold = 0;
   let detectionRate = 1;
   let falsePositiveRate = 1;
@@ -195,14 +196,14 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
     weakClassifiers.push(weak);
 
     // Running stage scores: the matrix bins decide "below" exactly as value < splitValue
-    // does (response-bins.ts), and validation windows are scored on their real values.
+    // does (response-bins.ts), and validation windows are scored on their real values by
+    // the scan kernel, one classifier at a time; adding each output to a running sum from 0
+    // is the kernel's own order, so these are the scores detection gives the same windows.
+    // Flat validation windows score −∞: no cascade passes them.
     const outputs = stumpOutputs(matrix, stump);
     for (let i = 0; i < negatives.count; i++) negativeScores[i]! += outputs[positiveCount + i]!;
-    const single = compileFeatures([weak.feature], validationStride);
-    for (let i = 0; i < validationPositives.count; i++) {
-      const value = evaluateCompiledFeature(single, 0, validationPositives.tables, i * validationPositives.tableSize) * validationPositives.inverseStandardDeviations[i]!;
-      validationScores[i]! += value < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
-    }
+    const validationOutputs = stageSampleScores({ weakClassifiers: [detectorWeakClassifier(weak)] }, positives.windowWidth, positives.windowHeight, validationPositives);
+    for (let i = 0; i < validationPositives.count; i++) validationScores[i]! += validationOutputs[i]!;
     threshold = thresholdForDetectionRate(validationScores, minDetectionRate);
     detectionRate = passRate(validationScores, threshold);
     falsePositiveRate = passRate(negativeScores, threshold);

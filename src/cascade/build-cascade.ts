@@ -10,7 +10,8 @@ import { packWindowSamples } from '../features/window-samples.js';
 import { mirrorGrayImage, type GrayImage } from '../image/gray-image.js';
 import type { Stage } from './cascade-model.js';
 import { BackgroundWindows, mineHardNegatives, sampleUniformNegatives } from './negative-mining.js';
-import { stagesPassed } from './stage-score.js';
+import { detectorCascadeFromModel } from '../detect/detector-cascade.js';
+import { acceptSamples } from '../detect/window-list.js';
 
 /** Options of cascade training; defaults are those of `rectboost train`. */
 export interface CascadeTrainingOptions {
@@ -286,10 +287,10 @@ function splitPositives(options: CascadeTrainingOptions): { training: GrayImage[
   return { validation: expand(order.slice(0, held)), training: expand(order.slice(held)) };
 }
 
+/** The windows the cascade so far accepts (scan kernel; flat windows never, as in detection). */
 function keepAccepted(windows: readonly GrayImage[], cascade: { stages: readonly Stage[]; window: { width: number; height: number } }, width: number, height: number): GrayImage[] {
-  if (cascade.stages.length === 0) return [...windows];
-  const passed = stagesPassed(cascade, packWindowSamples(windows, width, height));
-  return windows.filter((_, i) => passed[i] === cascade.stages.length);
+  const accepted = acceptSamples(detectorCascadeFromModel(cascade), packWindowSamples(windows, width, height));
+  return windows.filter((_, i) => accepted[i] === 1);
 }
 
 function meanWindow(windows: readonly GrayImage[], size: number): number[] {

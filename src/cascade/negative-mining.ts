@@ -1,7 +1,9 @@
 import { cropGrayImage, resizeGrayImage, type GrayImage } from '../image/gray-image.js';
+import { detectorCascadeFromModel, type DetectorCascade } from '../detect/detector-cascade.js';
+import { WindowListEvaluator } from '../detect/window-list.js';
 import { computeIntegralImage, type IntegralImage } from '../image/integral-image.js';
+import { windowInverseDeviation } from '../image/window-statistics.js';
 import type { CascadeModel } from './cascade-model.js';
-import { compileCascade, countStagesPassed, type CompiledCascade } from './window-classifier.js';
 
 /**
  * One level of a background image pyramid: the image shrunk by `scale`, scanned
@@ -22,6 +24,13 @@ export const MINING_SCALE_STEP = 1.25;
 
 /** Windows visited from one sheet before moving on, so negatives come from every image and scale. */
 const VISIT_CHUNK = 256;
+/**
+ * Most windows of one sheet evaluated in one kernel batch. A sheet's batch starts at
+ * VISIT_CHUNK and doubles each time the walk uses it up, so the cost of loading a sheet
+ * into the kernel is spread over many windows once mining gets hard, while early stages
+ * (which find their negatives fast) evaluate few windows they never look at.
+ */
+const MAX_BATCH = 65_536;
 
 /**
  * Background images as a searchable set of windows at every position and scale:
@@ -109,8 +118,12 @@ export class BackgroundWindows {
 /** Result of one mining run. */
 export interface MiningResult {
   readonly negatives: GrayImage[];
-  /** Background windows evaluated to find them. */
+  /** Background windows looked at, in the seeded order, until the last negative was found. */
   readonly windowsScanned: number;
+  /** Windows the kernel evaluated (at least windowsScanned: batches run ahead of the walk). */
+  readonly windowsEvaluated?: number;
+  /** Seconds spent evaluating them (this thread). */
+  readonly evaluationSeconds?: number;
   /** True when every background window was visited before `wanted` were found. */
   readonly exhausted: boolean;
 }
@@ -151,12 +164,37 @@ export function sampleUniformNegatives(backgrounds: BackgroundWindows, wanted: n
   return { negatives, windowsScanned: take, exhausted: take < wanted };
 }
 
+/** A sheet's walk through its positions, and the kernel's verdicts on the windows just ahead of it. */
+interface Walk {
+  readonly sheetIndex: number;
+  readonly n: number;
+  readonly multiplier: number;
+  readonly offset: number;
+  visited: number;
+  /** accepted[k] is the verdict on walk step evaluatedFrom + k, for k < evaluated. */
+  accepted: Uint8Array;
+  evaluatedFrom: number;
+  evaluated: number;
+  batch: number;
+}
+
+/** Position of walk step `step`: the seeded affine permutation p → (a·p + b) mod n. */
+function walkPosition(walk: Walk, step: number): number {
+  return (walk.multiplier * step + walk.offset) % walk.n;
+}
+
 /**
  * Hard negatives for the next stage: background windows that the cascade so
  * far still accepts (Viola & Jones 2001 §5.2). Sheets are visited round-robin in
  * a seeded order, VISIT_CHUNK windows at a time, each sheet walking its
  * positions in a seeded affine permutation (p → (a·p + b) mod n with gcd(a, n) = 1),
  * so every window is visited once and negatives spread over images and scales.
+ * `windowsScanned` counts the windows of that order up to the last negative found.
+ *
+ * The windows are evaluated by the scan kernel (WindowListEvaluator) in batches of
+ * the walk's next steps, so the verdicts, and so the negatives, are those a
+ * window-by-window walk would give; a batch may run ahead of the walk
+ * (windowsEvaluated), never changing what is found.
  * `shouldStop` is polled between chunks (for Ctrl-C).
  */
 export function mineHardNegatives(
@@ -173,36 +211,33 @@ export function mineHardNegatives(
     const j = Math.floor(random() * (i + 1));
     [order[i], order[j]] = [order[j]!, order[i]!];
   }
-  const walks = order.map((sheetIndex) => {
+  const walks: Walk[] = order.map((sheetIndex) => {
     const n = backgrounds.sheets[sheetIndex]!.positions;
     let multiplier = 1 + Math.floor(random() * Math.max(1, n - 1));
     while (greatestCommonDivisor(multiplier, n) !== 1) multiplier++;
-    return { sheetIndex, n, multiplier, offset: Math.floor(random() * n), visited: 0 };
+    return { sheetIndex, n, multiplier, offset: Math.floor(random() * n), visited: 0, accepted: new Uint8Array(0), evaluatedFrom: 0, evaluated: 0, batch: VISIT_CHUNK };
   });
-  const compiledByStride = new Map<number, CompiledCascade>();
+  const detector = detectorCascadeFromModel(cascade);
   const negatives: GrayImage[] = [];
+  const tally = { evaluated: 0, seconds: 0 };
   let scanned = 0;
   let active = walks.length;
+  const result = (exhausted: boolean): MiningResult => ({ negatives, windowsScanned: scanned, windowsEvaluated: tally.evaluated, evaluationSeconds: tally.seconds, exhausted });
   while (negatives.length < wanted && active > 0) {
     active = 0;
     for (const walk of walks) {
       if (walk.visited >= walk.n || negatives.length >= wanted) continue;
-      if (shouldStop?.()) return { negatives, windowsScanned: scanned, exhausted: false };
-      const { image, integral } = backgrounds.level(walk.sheetIndex);
-      let compiled = compiledByStride.get(integral.stride);
-      if (compiled === undefined) {
-        compiled = compileCascade(cascade, integral.stride);
-        compiledByStride.set(integral.stride, compiled);
-      }
+      if (shouldStop?.()) return result(false);
+      const { image } = backgrounds.level(walk.sheetIndex);
       const columns = image.width - backgrounds.windowWidth + 1;
       const end = Math.min(walk.n, walk.visited + VISIT_CHUNK);
       for (; walk.visited < end; walk.visited++) {
-        const position = (walk.multiplier * walk.visited + walk.offset) % walk.n;
-        const x = position % columns;
-        const y = (position - x) / columns;
+        if (walk.visited >= walk.evaluatedFrom + walk.evaluated) evaluateAhead(walk, backgrounds, detector, tally);
         scanned++;
-        if (countStagesPassed(compiled, integral, x, y) === compiled.stageCount) {
-          negatives.push(cropGrayImage(image, x, y, backgrounds.windowWidth, backgrounds.windowHeight));
+        if (walk.accepted[walk.visited - walk.evaluatedFrom] === 1) {
+          const position = walkPosition(walk, walk.visited);
+          const x = position % columns;
+          negatives.push(cropGrayImage(image, x, (position - x) / columns, backgrounds.windowWidth, backgrounds.windowHeight));
           if (negatives.length >= wanted) break;
         }
       }
@@ -210,7 +245,46 @@ export function mineHardNegatives(
       onProgress?.(negatives.length, scanned);
     }
   }
-  return { negatives, windowsScanned: scanned, exhausted: negatives.length < wanted };
+  return result(negatives.length < wanted);
+}
+
+/** Evaluates the walk's next `batch` steps in the kernel (flat windows rejected unlisted) and doubles the batch. */
+function evaluateAhead(walk: Walk, backgrounds: BackgroundWindows, detector: DetectorCascade, tally: { evaluated: number; seconds: number }): void {
+  const started = performance.now();
+  const { image, integral } = backgrounds.level(walk.sheetIndex);
+  const { windowWidth, windowHeight } = backgrounds;
+  const columns = image.width - windowWidth + 1;
+  const count = Math.min(walk.batch, walk.n - walk.visited);
+  const entries = new Int32Array(count);
+  const inverses = new Float64Array(count);
+  const steps = new Int32Array(count);
+  let listed = 0;
+  for (let k = 0; k < count; k++) {
+    const position = walkPosition(walk, walk.visited + k);
+    const x = position % columns;
+    const y = (position - x) / columns;
+    const inverse = windowInverseDeviation(integral, x, y, windowWidth, windowHeight);
+    if (inverse === 0) continue;
+    entries[listed] = y * integral.stride + x;
+    inverses[listed] = inverse;
+    steps[listed++] = k;
+  }
+  const verdicts = new Uint8Array(listed);
+  if (listed > 0) {
+    const evaluator = new WindowListEvaluator(detector, integral, listed);
+    try {
+      evaluator.accept(entries, inverses, listed, verdicts);
+    } finally {
+      evaluator.release();
+    }
+  }
+  walk.accepted = new Uint8Array(count);
+  for (let i = 0; i < listed; i++) walk.accepted[steps[i]!] = verdicts[i]!;
+  walk.evaluatedFrom = walk.visited;
+  walk.evaluated = count;
+  walk.batch = Math.min(MAX_BATCH, walk.batch * 2);
+  tally.evaluated += count;
+  tally.seconds += (performance.now() - started) / 1000;
 }
 
 function greatestCommonDivisor(a: number, b: number): number {
