@@ -61,6 +61,12 @@ export interface StageReport {
   readonly seconds: number;
   readonly stoppedBecause: NonNullable<Stage['training']>['stoppedBecause'];
   readonly featuresUsed: number;
+  /**
+   * Mining throughput of this stage: background windows the scan kernel evaluated per
+   * second of mining, on the one thread that mines (so per core). Absent for stage 1
+   * (uniform sampling evaluates no cascade) and for stages recorded by an earlier run.
+   */
+  readonly miningWindowsPerSecond?: number;
 }
 
 /** Progress of training, for a live progress line. */
@@ -224,9 +230,12 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
       },
     };
     stages.push(stage);
+    const throughput = mined.windowsEvaluated !== undefined && mined.evaluationSeconds !== undefined && mined.evaluationSeconds > 0
+      ? { miningWindowsPerSecond: mined.windowsEvaluated / mined.evaluationSeconds } : {};
     const report: StageReport = {
       ...reportOfRecordedStage(stage, stageIndex, stages),
       seconds: (performance.now() - started) / 1000,
+      ...throughput,
     };
     reports.push(report);
     await options.onStageFinished?.(stages, report);

@@ -2,7 +2,6 @@ import { cropGrayImage, resizeGrayImage, type GrayImage } from '../image/gray-im
 import { detectorCascadeFromModel, type DetectorCascade } from '../detect/detector-cascade.js';
 import { WindowListEvaluator } from '../detect/window-list.js';
 import { computeIntegralImage, type IntegralImage } from '../image/integral-image.js';
-import { windowInverseDeviation } from '../image/window-statistics.js';
 import type { CascadeModel } from './cascade-model.js';
 
 /**
@@ -24,13 +23,6 @@ export const MINING_SCALE_STEP = 1.25;
 
 /** Windows visited from one sheet before moving on, so negatives come from every image and scale. */
 const VISIT_CHUNK = 256;
-/**
- * Most windows of one sheet evaluated in one kernel batch. A sheet's batch starts at
- * VISIT_CHUNK and doubles each time the walk uses it up, so the cost of loading a sheet
- * into the kernel is spread over many windows once mining gets hard, while early stages
- * (which find their negatives fast) evaluate few windows they never look at.
- */
-const MAX_BATCH = 65_536;
 
 /**
  * Background images as a searchable set of windows at every position and scale:
@@ -164,23 +156,15 @@ export function sampleUniformNegatives(backgrounds: BackgroundWindows, wanted: n
   return { negatives, windowsScanned: take, exhausted: take < wanted };
 }
 
-/** A sheet's walk through its positions, and the kernel's verdicts on the windows just ahead of it. */
+/** A sheet's walk through its positions, and the kernel's verdicts on the sheet's windows. */
 interface Walk {
   readonly sheetIndex: number;
   readonly n: number;
   readonly multiplier: number;
   readonly offset: number;
   visited: number;
-  /** accepted[k] is the verdict on walk step evaluatedFrom + k, for k < evaluated. */
-  accepted: Uint8Array;
-  evaluatedFrom: number;
-  evaluated: number;
-  batch: number;
-}
-
-/** Position of walk step `step`: the seeded affine permutation p → (a·p + b) mod n. */
-function walkPosition(walk: Walk, step: number): number {
-  return (walk.multiplier * step + walk.offset) % walk.n;
+  /** accepted[position] is 1 when the cascade accepts that window; made when the walk first needs it. */
+  accepted: Uint8Array | undefined;
 }
 
 /**
@@ -191,10 +175,12 @@ function walkPosition(walk: Walk, step: number): number {
  * so every window is visited once and negatives spread over images and scales.
  * `windowsScanned` counts the windows of that order up to the last negative found.
  *
- * The windows are evaluated by the scan kernel (WindowListEvaluator) in batches of
- * the walk's next steps, so the verdicts, and so the negatives, are those a
- * window-by-window walk would give; a batch may run ahead of the walk
- * (windowsEvaluated), never changing what is found.
+ * The windows are evaluated by the scan kernel in batches of one whole sheet (its
+ * row scan, as detection runs it), the first time the walk enters the sheet; the
+ * walk then reads the verdicts in its seeded order, so the negatives and the count
+ * of windows scanned are those a window-by-window walk would give. A sheet costs
+ * one pass even when the walk leaves most of it unvisited (windowsEvaluated), which
+ * the row scan's speed pays for many times over.
  * `shouldStop` is polled between chunks (for Ctrl-C).
  */
 export function mineHardNegatives(
@@ -215,7 +201,7 @@ export function mineHardNegatives(
     const n = backgrounds.sheets[sheetIndex]!.positions;
     let multiplier = 1 + Math.floor(random() * Math.max(1, n - 1));
     while (greatestCommonDivisor(multiplier, n) !== 1) multiplier++;
-    return { sheetIndex, n, multiplier, offset: Math.floor(random() * n), visited: 0, accepted: new Uint8Array(0), evaluatedFrom: 0, evaluated: 0, batch: VISIT_CHUNK };
+    return { sheetIndex, n, multiplier, offset: Math.floor(random() * n), visited: 0, accepted: undefined };
   });
   const detector = detectorCascadeFromModel(cascade);
   const negatives: GrayImage[] = [];
@@ -231,11 +217,11 @@ export function mineHardNegatives(
       const { image } = backgrounds.level(walk.sheetIndex);
       const columns = image.width - backgrounds.windowWidth + 1;
       const end = Math.min(walk.n, walk.visited + VISIT_CHUNK);
+      walk.accepted ??= evaluateSheet(walk, backgrounds, detector, tally);
       for (; walk.visited < end; walk.visited++) {
-        if (walk.visited >= walk.evaluatedFrom + walk.evaluated) evaluateAhead(walk, backgrounds, detector, tally);
         scanned++;
-        if (walk.accepted[walk.visited - walk.evaluatedFrom] === 1) {
-          const position = walkPosition(walk, walk.visited);
+        const position = (walk.multiplier * walk.visited + walk.offset) % walk.n;
+        if (walk.accepted[position] === 1) {
           const x = position % columns;
           negatives.push(cropGrayImage(image, x, (position - x) / columns, backgrounds.windowWidth, backgrounds.windowHeight));
           if (negatives.length >= wanted) break;
@@ -248,43 +234,20 @@ export function mineHardNegatives(
   return result(negatives.length < wanted);
 }
 
-/** Evaluates the walk's next `batch` steps in the kernel (flat windows rejected unlisted) and doubles the batch. */
-function evaluateAhead(walk: Walk, backgrounds: BackgroundWindows, detector: DetectorCascade, tally: { evaluated: number; seconds: number }): void {
+/** The kernel's verdict on every window of the walk's sheet (detection's row scan at scale 1). */
+function evaluateSheet(walk: Walk, backgrounds: BackgroundWindows, detector: DetectorCascade, tally: { evaluated: number; seconds: number }): Uint8Array {
   const started = performance.now();
-  const { image, integral } = backgrounds.level(walk.sheetIndex);
-  const { windowWidth, windowHeight } = backgrounds;
-  const columns = image.width - windowWidth + 1;
-  const count = Math.min(walk.batch, walk.n - walk.visited);
-  const entries = new Int32Array(count);
-  const inverses = new Float64Array(count);
-  const steps = new Int32Array(count);
-  let listed = 0;
-  for (let k = 0; k < count; k++) {
-    const position = walkPosition(walk, walk.visited + k);
-    const x = position % columns;
-    const y = (position - x) / columns;
-    const inverse = windowInverseDeviation(integral, x, y, windowWidth, windowHeight);
-    if (inverse === 0) continue;
-    entries[listed] = y * integral.stride + x;
-    inverses[listed] = inverse;
-    steps[listed++] = k;
+  const { integral } = backgrounds.level(walk.sheetIndex);
+  const accepted = new Uint8Array(walk.n);
+  const evaluator = new WindowListEvaluator(detector, integral, 1);
+  try {
+    evaluator.acceptEveryWindow(accepted);
+  } finally {
+    evaluator.release();
   }
-  const verdicts = new Uint8Array(listed);
-  if (listed > 0) {
-    const evaluator = new WindowListEvaluator(detector, integral, listed);
-    try {
-      evaluator.accept(entries, inverses, listed, verdicts);
-    } finally {
-      evaluator.release();
-    }
-  }
-  walk.accepted = new Uint8Array(count);
-  for (let i = 0; i < listed; i++) walk.accepted[steps[i]!] = verdicts[i]!;
-  walk.evaluatedFrom = walk.visited;
-  walk.evaluated = count;
-  walk.batch = Math.min(MAX_BATCH, walk.batch * 2);
-  tally.evaluated += count;
+  tally.evaluated += walk.n;
   tally.seconds += (performance.now() - started) / 1000;
+  return accepted;
 }
 
 function greatestCommonDivisor(a: number, b: number): number {

@@ -20,6 +20,9 @@ import { loadImageIntoKernel, type KernelImage } from './scan-kernel.js';
  */
 export class WindowListEvaluator {
   private readonly kernel: KernelImage;
+  private readonly table: IntegralImage;
+  private readonly windowWidth: number;
+  private readonly windowHeight: number;
   readonly stageCount: number;
 
   /**
@@ -30,10 +33,13 @@ export class WindowListEvaluator {
   constructor(cascade: DetectorCascade, table: IntegralImage, listCapacity: number) {
     const compiled = compileCascadeAtScale(cascade, 1, table.stride, 1);
     this.stageCount = cascade.stages.length;
+    this.table = table;
+    this.windowWidth = cascade.windowWidth;
+    this.windowHeight = cascade.windowHeight;
     this.kernel = loadImageIntoKernel(
       table,
       { stages: compiled.stageEnds.length, weakClassifiers: compiled.weakEnds.length, corners: compiled.offsets.length },
-      Math.max(1, listCapacity),
+      Math.max(1, listCapacity, table.width - cascade.windowWidth + 1),
     );
     this.kernel.setScale(compiled, FLAT_WINDOW_VARIANCE);
   }
@@ -53,6 +59,28 @@ export class WindowListEvaluator {
       if (hit) j++;
     }
     return passed;
+  }
+
+  /**
+   * Every window position of an integral image (not sample tables: rows need the
+   * squared sums), row by row at a one-pixel shift, the way detection scans a scale:
+   * sets accepted[y · columns + x] to 1 for each accepted window, columns = width − W + 1,
+   * and returns how many. Flat windows are rejected by the kernel's own σ rule.
+   */
+  acceptEveryWindow(accepted: Uint8Array): number {
+    const { table, kernel } = this;
+    const columns = table.width - this.windowWidth + 1;
+    const rows = table.height - this.windowHeight + 1;
+    let total = 0;
+    for (let y = 0; y < rows; y++) {
+      const row = y * table.stride;
+      const count = kernel.scanRow(row, row + columns - 1, 1);
+      if (count === 0) continue;
+      const { addresses, tableAddress } = kernel.acceptedWindows(count);
+      for (let i = 0; i < count; i++) accepted[y * columns + (addresses[i]! - tableAddress) / 8 - row] = 1;
+      total += count;
+    }
+    return total;
   }
 
   /** Writes each listed window's margin at stage `stage` (Σ outputs − threshold, negative when it fails) into margins[0 … count − 1]. */
