@@ -1,11 +1,11 @@
 import { checkInteger, checkNumber, checkOneOf, checkOpenInterval, checkThat } from '../check.js';
-import type { Stage, StageTrainingRecord, WeakClassifier } from '../cascade/cascade-model.js';
+import type { Stage, StageTrainingRecord, WeakClassifier } from '../model/cascade-model.js';
 import { detectorWeakClassifier } from '../detect/detector-cascade.js';
 import { stageSampleScores } from '../detect/window-list.js';
 import { compileFeatures } from '../features/compiled-features.js';
 import type { HaarFeature } from '../features/haar-feature.js';
 import type { WindowSamples } from '../features/window-samples.js';
-import type { BoostingPool } from '../parallel/boosting-pool.js';
+import type { BoostingPool } from './boosting-pool-contract.js';
 import { decideRound, stumpOutputs } from './adaboost.js';
 import { BOOSTER_KINDS, initialWeights, updateWeights, type BoosterKind } from './booster.js';
 import { createSplitScratch, searchBestSplit, type SplitCandidate } from './best-split.js';

@@ -2,7 +2,7 @@ import seedrandom from 'seedrandom';
 import type { BoosterKind } from '../boost/booster.js';
 import { stageBuffersForRun, type StageBuffers } from '../boost/stage-buffers.js';
 import { trainStage } from '../boost/train-stage.js';
-import type { BoostingPool } from '../parallel/boosting-pool.js';
+import type { BoostingPool } from '../boost/boosting-pool-contract.js';
 import { checkInteger, checkNumber, checkOpenInterval, checkThat } from '../check.js';
 import { RectboostError } from '../errors.js';
 import { enumerateFeatures } from '../features/enumerate-features.js';

@@ -1,5 +1,5 @@
 import { featureCells, type WeightedRectangle } from '../features/haar-feature.js';
-import type { CascadeModel, WeakClassifier } from '../cascade/cascade-model.js';
+import type { CascadeModel, WeakClassifier } from '../model/cascade-model.js';
 
 /**
  * The part of a cascade that detection needs, with every feature spelled out as
