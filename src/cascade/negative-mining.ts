@@ -2,7 +2,6 @@ import { cropGrayImage, resizeGrayImage, type GrayImage } from '../image/gray-im
 import { detectorCascadeFromModel, type DetectorCascade } from '../detect/detector-cascade.js';
 import { WindowListEvaluator } from '../detect/window-list.js';
 import { computeIntegralImage, type IntegralImage } from '../image/integral-image.js';
-import { windowInverseDeviation } from '../image/window-statistics.js';
 import type { CascadeModel } from './cascade-model.js';
 
 /**
@@ -100,13 +99,6 @@ export class BackgroundWindows {
     return { sheetIndex: low, position: globalIndex - this.cumulative[low]! };
   }
 
-  /** Whether the window at a position of a sheet is flat (inverseStandardDeviation gives 0). */
-  isFlat(sheetIndex: number, position: number): boolean {
-    const { image, integral } = this.level(sheetIndex);
-    const columns = image.width - this.windowWidth + 1;
-    return windowInverseDeviation(integral, position % columns, Math.floor(position / columns), this.windowWidth, this.windowHeight) === 0;
-  }
-
   /** The window at a position of a sheet, as a windowWidth × windowHeight patch. */
   crop(sheetIndex: number, position: number): GrayImage {
     const { image } = this.level(sheetIndex);
@@ -133,40 +125,35 @@ export type MiningProgress = (found: number, scanned: number) => void;
 
 /**
  * Stage-1 negatives: `wanted` windows drawn uniformly without replacement over
- * every position and scale of the backgrounds that are not flat (each such window
- * equally likely). Flat windows are drawn, counted as scanned and passed over: no
- * cascade accepts them (the flat-window rule), so they are no one's false positive.
+ * every position and scale of the backgrounds (each window equally likely).
  */
 export function sampleUniformNegatives(backgrounds: BackgroundWindows, wanted: number, random: () => number): MiningResult {
   const total = backgrounds.totalWindows;
   const take = Math.min(wanted, total);
   const chosen = new Set<number>();
-  const negatives: GrayImage[] = [];
-  let scanned = 0;
-  const consider = (index: number): void => {
-    scanned++;
-    const { sheetIndex, position } = backgrounds.locate(index);
-    if (backgrounds.isFlat(sheetIndex, position)) return;
-    negatives.push(backgrounds.crop(sheetIndex, position));
-  };
+  const order: number[] = [];
   // Rejection of repeats is cheap while take ≪ total; past half, fall back to a partial shuffle.
   if (take <= total / 2) {
-    while (negatives.length < take && chosen.size < total) {
+    while (order.length < take) {
       const index = Math.floor(random() * total);
       if (!chosen.has(index)) {
         chosen.add(index);
-        consider(index);
+        order.push(index);
       }
     }
   } else {
     const all = Array.from({ length: total }, (_, i) => i);
-    for (let i = 0; i < total && negatives.length < take; i++) {
+    for (let i = 0; i < take; i++) {
       const j = i + Math.floor(random() * (total - i));
       [all[i], all[j]] = [all[j]!, all[i]!];
-      consider(all[i]!);
+      order.push(all[i]!);
     }
   }
-  return { negatives, windowsScanned: scanned, exhausted: negatives.length < wanted };
+  const negatives = order.map((index) => {
+    const { sheetIndex, position } = backgrounds.locate(index);
+    return backgrounds.crop(sheetIndex, position);
+  });
+  return { negatives, windowsScanned: take, exhausted: take < wanted };
 }
 
 /** A sheet's walk through its positions, and the kernel's verdicts on the sheet's windows. */

@@ -102,16 +102,3 @@ describe('window lists on a background table', () => {
     expect(passed).toBeLessThan(entries.length);
   });
 });
-
-describe('flat background windows', () => {
-  it('are drawn and counted but never taken as stage-1 negatives', () => {
-    // Half of this background is one grey level: every window inside that half is flat.
-    const image = randomGrayImage(40, 30, 'half-flat');
-    for (let y = 0; y < 30; y++) image.data.fill(128, y * 40, y * 40 + 20);
-    const backgrounds = new BackgroundWindows([image], 8, 6);
-    const drawn = sampleUniformNegatives(backgrounds, 200, seedrandom('flat'));
-    expect(drawn.negatives).toHaveLength(200);
-    expect(drawn.windowsScanned).toBeGreaterThan(200);
-    for (const negative of drawn.negatives) expect(twinDepth({ stages: [] }, negative).margin).not.toBe(-Infinity);
-  });
-});
