@@ -71,10 +71,11 @@ export {
   type StageTrainingOptions,
   type StageTrainingResult,
 } from './boost/train-stage.js';
+export { createStageBuffers, stageBuffersForRun, placeCompiledFeatures, type StageBuffers, type StageBufferLimits } from './boost/stage-buffers.js';
 export { createBoostingPool, defaultWorkerCount, type BoostingPool } from './parallel/boosting-pool.js';
 export type { MatrixBuildJob, SplitSearchJob } from './parallel/boosting-jobs.js';
 // --- Detection, metrics, evaluation, export, inspection (issue 5) ---
-export { detectorCascadeFromModel, type DetectorCascade, type DetectorStage, type DetectorWeakClassifier } from './detect/detector-cascade.js';
+export { detectorCascadeFromModel, detectorWeakClassifier, type DetectorCascade, type DetectorStage, type DetectorWeakClassifier } from './detect/detector-cascade.js';
 export {
   scanImage,
   scanScales,

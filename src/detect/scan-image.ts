@@ -133,12 +133,13 @@ class HitCollector {
  * the detector, not the image, is scaled; one integral image serves every scale).
  *
  * For each scale s (scanScales) every weak classifier is recompiled once to
- * corner offsets into the image's integral table; windows of round(W·s) ×
+ * corner offsets into the image's integral table (compileCascadeAtScale, the one compile step); windows of round(W·s) ×
  * round(H·s) pixels slide by max(1, round(shift·s)) pixels. Each window's σ
- * comes from the squared table (var = E[I²] − E[I]², as windowStatistics);
+ * comes from the squared table by the σ rule of inverseStandardDeviation;
  * windows with variance below FLAT_WINDOW_VARIANCE are rejected without
  * evaluating any feature (no division by zero). Feature values are multiplied
- * by 1/σ, exactly as training's stageScores does, and the window leaves at the
+ * by 1/σ, as training, mining and patch evaluation do through the same kernel
+ * (window-list.ts), and the window leaves at the
  * first stage it fails (early rejection, the attentional cascade of Viola & Jones 2004).
  *
  * The per-window work runs in the WebAssembly scan kernel (scan-kernel.wat),
