@@ -62,16 +62,8 @@ export async function run(flags) {
     if (rss > peak) peak = rss;
     if (rss > stagePeak) stagePeak = rss;
   }, 50);
-  const phaseSeconds = { responses: 0, boosting: 0, mining: 0 };
-  let phase = 'mining';
-  let phaseStart = performance.now();
+  const phaseSeconds = { responseTable: 0, boosting: 0, mining: 0 };
   let largestTable = 0;
-  const switchPhase = (next) => {
-    const now = performance.now();
-    phaseSeconds[phase] += (now - phaseStart) / 1000;
-    phase = next;
-    phaseStart = now;
-  };
   const started = performance.now();
   const pool = await createBoostingPool(workers);
   try {
@@ -81,15 +73,10 @@ export async function run(flags) {
       maxStages, maxWeakClassifiers, negativesPerStage, booster: 'gentle', mirror: false,
       validationShare: 0.2, seed: 1, memoryBytes: 2 ** 32, pool,
       onEvent: (event) => {
-        if (event.phase === 'mining' && phase !== 'mining') switchPhase('mining');
-        if (event.phase === 'responses') {
-          switchPhase('responses');
-          largestTable = Math.max(largestTable, event.features * event.samples);
-        }
-        if (event.phase === 'boosting' && phase !== 'boosting') switchPhase('boosting');
+        if (event.phase === 'responses') largestTable = Math.max(largestTable, event.features * event.samples);
         if (event.phase === 'stage-finished') {
-          switchPhase('mining');
           const r = event.report;
+          for (const key of Object.keys(phaseSeconds)) phaseSeconds[key] += r.phaseSeconds?.[key] ?? 0;
           const rate = r.miningWindowsPerSecond === undefined ? '' : `, mining ${(r.miningWindowsPerSecond / 1e6).toFixed(1)} M windows/s`;
           console.log(`stage ${r.stageIndex + 1}: ${r.weakClassifiers} weak, f.p. ${r.falsePositiveRate.toFixed(4)}, ${r.windowsScanned} windows scanned${rate}, ` +
             `${r.seconds.toFixed(1)} s, peak RSS in stage ${gigabytes(stagePeak)} GB`);
@@ -97,12 +84,11 @@ export async function run(flags) {
         }
       },
     });
-    switchPhase('mining');
     console.log(`${result.stages.length} stages (${result.stopReason}) in ${((performance.now() - started) / 1000).toFixed(1)} s wall`);
   } finally {
     clearInterval(sampler);
     await pool.close();
   }
-  console.log(`time per phase: response tables ${phaseSeconds.responses.toFixed(1)} s, boosting rounds ${phaseSeconds.boosting.toFixed(1)} s, mining ${phaseSeconds.mining.toFixed(1)} s`);
+  console.log(`time per phase: response tables ${phaseSeconds.responseTable.toFixed(1)} s, boosting rounds ${phaseSeconds.boosting.toFixed(1)} s, mining ${phaseSeconds.mining.toFixed(1)} s`);
   console.log(`peak RSS ${gigabytes(peak)} GB; largest table ${gigabytes(largestTable)} GB; bound 1.3 × table + 0.6 GB = ${gigabytes(1.3 * largestTable + 0.6 * 2 ** 30)} GB`);
 }

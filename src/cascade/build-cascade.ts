@@ -67,6 +67,8 @@ export interface StageReport {
    * (uniform sampling evaluates no cascade) and for stages recorded by an earlier run.
    */
   readonly miningWindowsPerSecond?: number;
+  /** Where this stage's time went, in seconds (absent for stages recorded by an earlier run). */
+  readonly phaseSeconds?: { readonly mining: number; readonly responseTable: number; readonly boosting: number };
 }
 
 /** Progress of training, for a live progress line. */
@@ -166,12 +168,14 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
       return finish('positives-exhausted', `Stopped: the cascade keeps too few positives (${trainingKept.length}) to train stage ${stageIndex + 1}.`);
     }
 
+    const miningStart = performance.now();
     const miningRandom = seedrandom(`${options.seed}:mining:${stageIndex}`);
     const wanted = options.negativesPerStage;
     const onMining = (found: number, scanned: number): void => options.onEvent?.({ phase: 'mining', stageIndex, found, wanted, scanned });
     const mined = stageIndex === 0
       ? sampleUniformNegatives(backgrounds, wanted, miningRandom)
       : mineHardNegatives(backgrounds, cascadeSoFar, wanted, miningRandom, onMining, options.shouldStop);
+    const miningSeconds = (performance.now() - miningStart) / 1000;
     stop();
     onMining(mined.negatives.length, mined.windowsScanned);
     if (mined.negatives.length < Math.max(1, Math.ceil(wanted * MIN_NEGATIVE_SHARE))) {
@@ -236,6 +240,7 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
       ...reportOfRecordedStage(stage, stageIndex, stages),
       seconds: (performance.now() - started) / 1000,
       ...throughput,
+      phaseSeconds: { mining: miningSeconds, responseTable: result.matrixSeconds, boosting: result.boostingSeconds },
     };
     reports.push(report);
     await options.onStageFinished?.(stages, report);
