@@ -13,7 +13,7 @@ export {
   type GrayImage,
 } from './image/gray-image.js';
 export { computeIntegralImage, rectangleSum, type IntegralImage } from './image/integral-image.js';
-export { windowStatistics, FLAT_WINDOW_VARIANCE, type WindowStatistics } from './image/window-statistics.js';
+export { windowStatistics, windowInverseDeviation, inverseStandardDeviation, FLAT_WINDOW_VARIANCE, type WindowStatistics } from './image/window-statistics.js';
 
 export { BASIC_FEATURE_KINDS, CELL_LAYOUTS, isFeatureKind, type FeatureKind, type FeatureSetName, type CellLayout } from './features/feature-kind.js';
 export {
@@ -71,10 +71,11 @@ export {
   type StageTrainingOptions,
   type StageTrainingResult,
 } from './boost/train-stage.js';
+export { createStageBuffers, stageBuffersForRun, placeCompiledFeatures, type StageBuffers, type StageBufferLimits } from './boost/stage-buffers.js';
 export { createBoostingPool, defaultWorkerCount, type BoostingPool } from './parallel/boosting-pool.js';
 export type { MatrixBuildJob, SplitSearchJob } from './parallel/boosting-jobs.js';
 // --- Detection, metrics, evaluation, export, inspection (issue 5) ---
-export { detectorCascadeFromModel, type DetectorCascade, type DetectorStage, type DetectorWeakClassifier } from './detect/detector-cascade.js';
+export { detectorCascadeFromModel, detectorWeakClassifier, type DetectorCascade, type DetectorStage, type DetectorWeakClassifier } from './detect/detector-cascade.js';
 export {
   scanImage,
   scanScales,
@@ -132,8 +133,8 @@ export {
   type WeakClassifier,
 } from './cascade/cascade-model.js';
 export { MODEL_LIMITS, parseCascadeModel, serializeCascadeModel, validateCascadeModel } from './cascade/model-json.js';
-export { stageScores, stagesPassed } from './cascade/stage-score.js';
-export { compileCascade, countStagesPassed, type CompiledCascade } from './cascade/window-classifier.js';
+export { compileCascadeAtScale } from './detect/compiled-cascade.js';
+export { WindowListEvaluator, acceptSamples, cascadeDepths, stageSampleScores, sampleTable } from './detect/window-list.js';
 export { BackgroundWindows, MINING_SCALE_STEP, mineHardNegatives, sampleUniformNegatives, type MiningProgress, type MiningResult } from './cascade/negative-mining.js';
 export {
   trainCascade,

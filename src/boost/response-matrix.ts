@@ -66,7 +66,7 @@ export interface ResponseRowsTarget {
  * count (6, 8, 9 for the basic kinds; any other count takes a generic loop), and the
  * samples stream through SampleColumns. The raw value is an exact integer (integer
  * coefficients times integer sums below 2^24), and it is multiplied by the same
- * Float64 1/σ as stageScores uses, so training sees bit for bit the values that
+ * Float64 1/σ as the scan kernel uses (inverseStandardDeviation), so training sees bit for bit the values that
  * the model will compute. `scratch` holds at least sampleCount values.
  */
 export function fillResponseRows(
@@ -139,7 +139,7 @@ export function fillResponseRows(
 /**
  * Builds the whole response matrix in this thread: features × (positives, then
  * negatives), each response the variance-normalized feature value (raw value · 1/σ,
- * as evaluateNormalizedFeature and stageScores compute it).
+ * as the scan kernel computes it).
  * @throws RectboostError `invalid-option` when the sets' windows differ or a set is empty.
  * @example buildResponseMatrix(enumerateFeatures(24, 24), faces, backgrounds)
  */

@@ -21,15 +21,24 @@ export interface SampleColumns {
   readonly inverseStandardDeviations: Float64Array;
 }
 
+/** Arrays a caller lends packSampleColumns to write into (e.g. a run's StageBuffers). */
+export interface SampleColumnStorage {
+  readonly columns: Float32Array;
+  readonly inverseStandardDeviations: Float64Array;
+}
+
 /**
- * Transposes positives then negatives into SampleColumns. `createBuffer` lets the
- * caller back the arrays with SharedArrayBuffers (default: ordinary ArrayBuffers).
- * @throws RectboostError `invalid-option` when the two sets have different windows.
+ * Transposes positives then negatives into SampleColumns. `target` is either a
+ * function that allocates each array's buffer (e.g. SharedArrayBuffers; default:
+ * ordinary ArrayBuffers) or storage to fill, whose leading entries are used and
+ * returned as views.
+ * @throws RectboostError `invalid-option` when the two sets have different windows
+ *   or the storage is too small.
  */
 export function packSampleColumns(
   positives: WindowSamples,
   negatives: WindowSamples,
-  createBuffer: (bytes: number) => ArrayBufferLike = (bytes) => new ArrayBuffer(bytes),
+  target: ((bytes: number) => ArrayBufferLike) | SampleColumnStorage = (bytes) => new ArrayBuffer(bytes),
 ): SampleColumns {
   checkThat(
     positives.windowWidth === negatives.windowWidth && positives.windowHeight === negatives.windowHeight,
@@ -37,8 +46,17 @@ export function packSampleColumns(
   );
   const sampleCount = positives.count + negatives.count;
   const tableSize = positives.tableSize;
-  const columns = new Float32Array(createBuffer(4 * tableSize * sampleCount));
-  const inverseStandardDeviations = new Float64Array(createBuffer(8 * sampleCount));
+  let columns: Float32Array;
+  let inverseStandardDeviations: Float64Array;
+  if (typeof target === 'function') {
+    columns = new Float32Array(target(4 * tableSize * sampleCount));
+    inverseStandardDeviations = new Float64Array(target(8 * sampleCount));
+  } else {
+    checkThat(target.columns.length >= tableSize * sampleCount && target.inverseStandardDeviations.length >= sampleCount,
+      `Sample storage holds ${target.inverseStandardDeviations.length} samples of ${Math.floor(target.columns.length / tableSize)} table entries; ${sampleCount} samples of ${tableSize} are needed.`);
+    columns = target.columns.subarray(0, tableSize * sampleCount);
+    inverseStandardDeviations = target.inverseStandardDeviations.subarray(0, sampleCount);
+  }
   let s = 0;
   for (const set of [positives, negatives]) {
     for (let i = 0; i < set.count; i++, s++) {

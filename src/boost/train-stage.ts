@@ -1,18 +1,20 @@
 import { checkInteger, checkNumber, checkOneOf, checkOpenInterval, checkThat } from '../check.js';
-import type { Stage, StageTrainingRecord, WeakClassifier } from '../cascade/cascade-model.js';
-import { compileFeatures, evaluateCompiledFeature } from '../features/compiled-features.js';
+import type { Stage, StageTrainingRecord, WeakClassifier } from '../model/cascade-model.js';
+import { detectorWeakClassifier } from '../detect/detector-cascade.js';
+import { stageSampleScores } from '../detect/window-list.js';
+import { compileFeatures } from '../features/compiled-features.js';
 import type { HaarFeature } from '../features/haar-feature.js';
 import type { WindowSamples } from '../features/window-samples.js';
-import type { BoostingPool } from '../parallel/boosting-pool.js';
+import type { BoostingPool } from './boosting-pool-contract.js';
 import { decideRound, stumpOutputs } from './adaboost.js';
 import { BOOSTER_KINDS, initialWeights, updateWeights, type BoosterKind } from './booster.js';
 import { createSplitScratch, searchBestSplit, type SplitCandidate } from './best-split.js';
 import { fillResponseRows, splitValueOf, type ResponseMatrix } from './response-matrix.js';
 import { packSampleColumns } from './sample-columns.js';
+import { createStageBuffers, DEFAULT_MATRIX_MEMORY_BYTES, placeCompiledFeatures, type StageBuffers } from './stage-buffers.js';
 import { passRate, thresholdForDetectionRate } from './stage-threshold.js';
 
-/** Default cap on the response matrix: 4 GiB, also the largest single buffer Node 20 allows. */
-export const DEFAULT_MATRIX_MEMORY_BYTES = 2 ** 32;
+export { DEFAULT_MATRIX_MEMORY_BYTES };
 
 /** What trainStage reports after each weak classifier it adds. */
 export interface StageRoundReport {
@@ -55,6 +57,11 @@ export interface StageTrainingOptions {
   readonly onRound?: (round: StageRoundReport) => void;
   /** Initial weights: `balanced` (default, Viola & Jones 2001 Table 1) or `uniform`. */
   readonly initialWeights?: 'balanced' | 'uniform';
+  /**
+   * Memory to work in, shared by every stage of a run (see StageBuffers); shared
+   * buffers when a pool is given. When absent, the stage allocates its own.
+   */
+  readonly buffers?: StageBuffers;
 }
 
 /** What trainStage produced and measured. */
@@ -124,35 +131,39 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
 
   // --- Response matrix -------------------------------------------------------
   const matrixStart = performance.now();
-  const createBuffer = pool === undefined ? (bytes: number) => new ArrayBuffer(bytes) : (bytes: number) => new SharedArrayBuffer(bytes);
-  const samples = packSampleColumns(positives, negatives, createBuffer);
-  const compiled = compileFeatures(stageFeatures, positives.windowWidth + 1);
+  const compiledAll = compileFeatures(stageFeatures, positives.windowWidth + 1);
+  const buffers = options.buffers ?? createStageBuffers({
+    featureCount,
+    cornerCount: compiledAll.offsets.length,
+    sampleCount,
+    tableSize: positives.tableSize,
+    memoryBytes: featureCount * sampleCount,
+    shared: pool !== undefined,
+  });
+  checkThat(pool === undefined || buffers.bins.buffer instanceof SharedArrayBuffer,
+    'Stage buffers given with a worker pool must be shared; create them with `shared: true`.');
+  checkThat(featureCount * sampleCount <= buffers.tableBytes && sampleCount <= buffers.limits.sampleCount,
+    `A response table of ${featureCount} features × ${sampleCount} samples does not fit the run's table of ${buffers.tableBytes} bytes for ${buffers.limits.sampleCount} samples.`);
+  const samples = packSampleColumns(positives, negatives, buffers);
+  const compiled = placeCompiledFeatures(buffers, compiledAll);
   const matrix: ResponseMatrix = {
     featureCount,
     sampleCount,
     positiveCount,
-    bins: new Uint8Array(createBuffer(featureCount * sampleCount)),
-    minimums: new Float64Array(createBuffer(8 * featureCount)),
-    binWidths: new Float64Array(createBuffer(8 * featureCount)),
+    bins: buffers.bins.subarray(0, featureCount * sampleCount),
+    minimums: buffers.minimums.subarray(0, featureCount),
+    binWidths: buffers.binWidths.subarray(0, featureCount),
   };
   if (pool === undefined) {
     fillResponseRows(samples, compiled, 0, featureCount, matrix);
   } else {
-    await pool.buildMatrix({
-      ...samples,
-      starts: copyInto(compiled.starts, createBuffer),
-      offsets: copyInto(compiled.offsets, createBuffer),
-      coefficients: copyInto(compiled.coefficients, createBuffer),
-      bins: matrix.bins,
-      minimums: matrix.minimums,
-      binWidths: matrix.binWidths,
-    }, featureCount);
+    await pool.buildMatrix({ ...samples, ...compiled, bins: matrix.bins, minimums: matrix.minimums, binWidths: matrix.binWidths }, featureCount);
   }
   const matrixSeconds = (performance.now() - matrixStart) / 1000;
 
   // --- Boosting --------------------------------------------------------------
   const boostingStart = performance.now();
-  const weights = new Float64Array(createBuffer(8 * sampleCount));
+  const weights = buffers.weights.subarray(0, sampleCount);
   weights.set(initialWeights(positiveCount, negatives.count, options.initialWeights ?? 'balanced'));
   const scratch = createSplitScratch();
   const search = async (): Promise<SplitCandidate | null> =>
@@ -163,7 +174,6 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
   const weakClassifiers: WeakClassifier[] = [];
   const negativeScores = new Float64Array(negatives.count);
   const validationScores = new Float64Array(validationPositives.count);
-  const validationStride = validationPositives.windowWidth + 1;
   let threshold = 0;
   let detectionRate = 1;
   let falsePositiveRate = 1;
@@ -186,14 +196,14 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
     weakClassifiers.push(weak);
 
     // Running stage scores: the matrix bins decide "below" exactly as value < splitValue
-    // does (response-bins.ts), and validation windows are scored on their real values.
+    // does (response-bins.ts), and validation windows are scored on their real values by
+    // the scan kernel, one classifier at a time; adding each output to a running sum from 0
+    // is the kernel's own order, so these are the scores detection gives the same windows.
+    // Flat validation windows score −∞: no cascade passes them.
     const outputs = stumpOutputs(matrix, stump);
     for (let i = 0; i < negatives.count; i++) negativeScores[i]! += outputs[positiveCount + i]!;
-    const single = compileFeatures([weak.feature], validationStride);
-    for (let i = 0; i < validationPositives.count; i++) {
-      const value = evaluateCompiledFeature(single, 0, validationPositives.tables, i * validationPositives.tableSize) * validationPositives.inverseStandardDeviations[i]!;
-      validationScores[i]! += value < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
-    }
+    const validationOutputs = stageSampleScores({ weakClassifiers: [detectorWeakClassifier(weak)] }, positives.windowWidth, positives.windowHeight, validationPositives);
+    for (let i = 0; i < validationPositives.count; i++) validationScores[i]! += validationOutputs[i]!;
     threshold = thresholdForDetectionRate(validationScores, minDetectionRate);
     detectionRate = passRate(validationScores, threshold);
     falsePositiveRate = passRate(negativeScores, threshold);
@@ -235,10 +245,4 @@ function chooseFeatures(featureCount: number, sampleCount: number, memoryBytes: 
     all[j] = swap;
   }
   return all.slice(0, fitting).sort((a, b) => a - b);
-}
-
-function copyInto<T extends Int32Array | Float64Array>(source: T, createBuffer: (bytes: number) => ArrayBufferLike): T {
-  const copy = new (source.constructor as new (buffer: ArrayBufferLike) => T)(createBuffer(source.byteLength));
-  copy.set(source);
-  return copy;
 }

@@ -1,7 +1,8 @@
 import seedrandom from 'seedrandom';
 import type { BoosterKind } from '../boost/booster.js';
+import { stageBuffersForRun, type StageBuffers } from '../boost/stage-buffers.js';
 import { trainStage } from '../boost/train-stage.js';
-import type { BoostingPool } from '../parallel/boosting-pool.js';
+import type { BoostingPool } from '../boost/boosting-pool-contract.js';
 import { checkInteger, checkNumber, checkOpenInterval, checkThat } from '../check.js';
 import { RectboostError, isRectboostError } from '../errors.js';
 import { enumerateFeatures } from '../features/enumerate-features.js';
@@ -9,7 +10,8 @@ import { packWindowSamples } from '../features/window-samples.js';
 import { mirrorGrayImage, type GrayImage } from '../image/gray-image.js';
 import type { Stage } from './cascade-model.js';
 import { BackgroundWindows, mineHardNegatives, sampleUniformNegatives } from './negative-mining.js';
-import { stagesPassed } from './stage-score.js';
+import { detectorCascadeFromModel } from '../detect/detector-cascade.js';
+import { acceptSamples } from '../detect/window-list.js';
 
 /** Options of cascade training; defaults are those of `rectboost train`. */
 export interface CascadeTrainingOptions {
@@ -68,6 +70,14 @@ export interface StageReport {
   readonly seconds: number;
   readonly stoppedBecause: NonNullable<Stage['training']>['stoppedBecause'];
   readonly featuresUsed: number;
+  /**
+   * Mining throughput of this stage: background windows the scan kernel evaluated per
+   * second of mining, on the one thread that mines (so per core). Absent for stage 1
+   * (uniform sampling evaluates no cascade) and for stages recorded by an earlier run.
+   */
+  readonly miningWindowsPerSecond?: number;
+  /** Where this stage's time went, in seconds (absent for stages recorded by an earlier run). */
+  readonly phaseSeconds?: { readonly mining: number; readonly responseTable: number; readonly boosting: number };
 }
 
 /** Progress of training, for a live progress line. */
@@ -143,6 +153,12 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
   const backgrounds = new BackgroundWindows(options.backgrounds, windowWidth, windowHeight);
   const stages: Stage[] = [...(options.completedStages ?? [])];
   const reports: StageReport[] = stages.map((stage, stageIndex) => reportOfRecordedStage(stage, stageIndex, stages));
+  // One response table for the whole run, sized for the largest stage (every training
+  // positive plus a full set of negatives) and reused by each stage, so peak memory
+  // does not grow with the number of stages; --memory caps it.
+  let buffers: StageBuffers | undefined;
+  const runBuffers = (): StageBuffers =>
+    (buffers ??= stageBuffersForRun(features, windowWidth, windowHeight, training.length + options.negativesPerStage, options.memoryBytes, options.pool !== undefined));
   const stop = (): void => {
     if (options.shouldStop?.()) throw new RectboostError('interrupted', 'Training was interrupted.');
   };
@@ -192,12 +208,14 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
         return finish('positives-exhausted', `Stopped: the cascade keeps too few positives (${trainingKept.length}) to train stage ${stageIndex + 1}.`);
       }
 
+      const miningStart = performance.now();
       const miningRandom = seedrandom(`${options.seed}:mining:${stageIndex}`);
       const wanted = options.negativesPerStage;
       const onMining = (found: number, scanned: number): void => options.onEvent?.({ phase: 'mining', stageIndex, found, wanted, scanned });
       const mined = stageIndex === 0
         ? sampleUniformNegatives(backgrounds, wanted, miningRandom)
         : mineHardNegatives(backgrounds, cascadeSoFar, wanted, miningRandom, onMining, options.shouldStop);
+      const miningSeconds = (performance.now() - miningStart) / 1000;
       stop();
       onMining(mined.negatives.length, mined.windowsScanned);
       if (mined.negatives.length < Math.max(1, Math.ceil(wanted * MIN_NEGATIVE_SHARE))) {
@@ -219,6 +237,7 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
         maxFalsePositiveRate: options.stageFalsePositiveRate,
         maxWeakClassifiers: options.maxWeakClassifiers,
         memoryBytes: options.memoryBytes,
+        buffers: runBuffers(),
         random: seedrandom(`${options.seed}:features:${stageIndex}`),
         ...(options.pool === undefined ? {} : { pool: options.pool }),
         onRound: (round) => {
@@ -255,9 +274,13 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
         },
       };
       stages.push(stage);
+      const throughput = mined.windowsEvaluated !== undefined && mined.evaluationSeconds !== undefined && mined.evaluationSeconds > 0
+        ? { miningWindowsPerSecond: mined.windowsEvaluated / mined.evaluationSeconds } : {};
       const report: StageReport = {
         ...reportOfRecordedStage(stage, stageIndex, stages),
         seconds: (performance.now() - started) / 1000,
+        ...throughput,
+        phaseSeconds: { mining: miningSeconds, responseTable: result.matrixSeconds, boosting: result.boostingSeconds },
       };
       reports.push(report);
       await options.onStageFinished?.(stages, report);
@@ -353,10 +376,10 @@ function splitPositives(options: CascadeTrainingOptions): { training: GrayImage[
   return { validation: expand(order.slice(0, held)), training: expand(order.slice(held)) };
 }
 
+/** The windows the cascade so far accepts (scan kernel; flat windows never, as in detection). */
 function keepAccepted(windows: readonly GrayImage[], cascade: { stages: readonly Stage[]; window: { width: number; height: number } }, width: number, height: number): GrayImage[] {
-  if (cascade.stages.length === 0) return [...windows];
-  const passed = stagesPassed(cascade, packWindowSamples(windows, width, height));
-  return windows.filter((_, i) => passed[i] === cascade.stages.length);
+  const accepted = acceptSamples(detectorCascadeFromModel(cascade), packWindowSamples(windows, width, height));
+  return windows.filter((_, i) => accepted[i] === 1);
 }
 
 function meanWindow(windows: readonly GrayImage[], size: number): number[] {

@@ -1,7 +1,8 @@
 import { cropGrayImage, resizeGrayImage, type GrayImage } from '../image/gray-image.js';
+import { detectorCascadeFromModel, type DetectorCascade } from '../detect/detector-cascade.js';
+import { WindowListEvaluator } from '../detect/window-list.js';
 import { computeIntegralImage, type IntegralImage } from '../image/integral-image.js';
 import type { CascadeModel } from './cascade-model.js';
-import { compileCascade, countStagesPassed, type CompiledCascade } from './window-classifier.js';
 
 /**
  * One level of a background image pyramid: the image shrunk by `scale`, scanned
@@ -109,8 +110,12 @@ export class BackgroundWindows {
 /** Result of one mining run. */
 export interface MiningResult {
   readonly negatives: GrayImage[];
-  /** Background windows evaluated to find them. */
+  /** Background windows looked at, in the seeded order, until the last negative was found. */
   readonly windowsScanned: number;
+  /** Windows the kernel evaluated (at least windowsScanned: batches run ahead of the walk). */
+  readonly windowsEvaluated?: number;
+  /** Seconds spent evaluating them (this thread). */
+  readonly evaluationSeconds?: number;
   /** True when every background window was visited before `wanted` were found. */
   readonly exhausted: boolean;
 }
@@ -151,12 +156,31 @@ export function sampleUniformNegatives(backgrounds: BackgroundWindows, wanted: n
   return { negatives, windowsScanned: take, exhausted: take < wanted };
 }
 
+/** A sheet's walk through its positions, and the kernel's verdicts on the sheet's windows. */
+interface Walk {
+  readonly sheetIndex: number;
+  readonly n: number;
+  readonly multiplier: number;
+  readonly offset: number;
+  visited: number;
+  /** accepted[position] is 1 when the cascade accepts that window; made when the walk first needs it. */
+  accepted: Uint8Array | undefined;
+}
+
 /**
  * Hard negatives for the next stage: background windows that the cascade so
  * far still accepts (Viola & Jones 2001 §5.2). Sheets are visited round-robin in
  * a seeded order, VISIT_CHUNK windows at a time, each sheet walking its
  * positions in a seeded affine permutation (p → (a·p + b) mod n with gcd(a, n) = 1),
  * so every window is visited once and negatives spread over images and scales.
+ * `windowsScanned` counts the windows of that order up to the last negative found.
+ *
+ * The windows are evaluated by the scan kernel in batches of one whole sheet (its
+ * row scan, as detection runs it), the first time the walk enters the sheet; the
+ * walk then reads the verdicts in its seeded order, so the negatives and the count
+ * of windows scanned are those a window-by-window walk would give. A sheet costs
+ * one pass even when the walk leaves most of it unvisited (windowsEvaluated), which
+ * the row scan's speed pays for many times over.
  * `shouldStop` is polled between chunks (for Ctrl-C).
  */
 export function mineHardNegatives(
@@ -173,36 +197,33 @@ export function mineHardNegatives(
     const j = Math.floor(random() * (i + 1));
     [order[i], order[j]] = [order[j]!, order[i]!];
   }
-  const walks = order.map((sheetIndex) => {
+  const walks: Walk[] = order.map((sheetIndex) => {
     const n = backgrounds.sheets[sheetIndex]!.positions;
     let multiplier = 1 + Math.floor(random() * Math.max(1, n - 1));
     while (greatestCommonDivisor(multiplier, n) !== 1) multiplier++;
-    return { sheetIndex, n, multiplier, offset: Math.floor(random() * n), visited: 0 };
+    return { sheetIndex, n, multiplier, offset: Math.floor(random() * n), visited: 0, accepted: undefined };
   });
-  const compiledByStride = new Map<number, CompiledCascade>();
+  const detector = detectorCascadeFromModel(cascade);
   const negatives: GrayImage[] = [];
+  const tally = { evaluated: 0, seconds: 0 };
   let scanned = 0;
   let active = walks.length;
+  const result = (exhausted: boolean): MiningResult => ({ negatives, windowsScanned: scanned, windowsEvaluated: tally.evaluated, evaluationSeconds: tally.seconds, exhausted });
   while (negatives.length < wanted && active > 0) {
     active = 0;
     for (const walk of walks) {
       if (walk.visited >= walk.n || negatives.length >= wanted) continue;
-      if (shouldStop?.()) return { negatives, windowsScanned: scanned, exhausted: false };
-      const { image, integral } = backgrounds.level(walk.sheetIndex);
-      let compiled = compiledByStride.get(integral.stride);
-      if (compiled === undefined) {
-        compiled = compileCascade(cascade, integral.stride);
-        compiledByStride.set(integral.stride, compiled);
-      }
+      if (shouldStop?.()) return result(false);
+      const { image } = backgrounds.level(walk.sheetIndex);
       const columns = image.width - backgrounds.windowWidth + 1;
       const end = Math.min(walk.n, walk.visited + VISIT_CHUNK);
+      walk.accepted ??= evaluateSheet(walk, backgrounds, detector, tally);
       for (; walk.visited < end; walk.visited++) {
-        const position = (walk.multiplier * walk.visited + walk.offset) % walk.n;
-        const x = position % columns;
-        const y = (position - x) / columns;
         scanned++;
-        if (countStagesPassed(compiled, integral, x, y) === compiled.stageCount) {
-          negatives.push(cropGrayImage(image, x, y, backgrounds.windowWidth, backgrounds.windowHeight));
+        const position = (walk.multiplier * walk.visited + walk.offset) % walk.n;
+        if (walk.accepted[position] === 1) {
+          const x = position % columns;
+          negatives.push(cropGrayImage(image, x, (position - x) / columns, backgrounds.windowWidth, backgrounds.windowHeight));
           if (negatives.length >= wanted) break;
         }
       }
@@ -210,7 +231,23 @@ export function mineHardNegatives(
       onProgress?.(negatives.length, scanned);
     }
   }
-  return { negatives, windowsScanned: scanned, exhausted: negatives.length < wanted };
+  return result(negatives.length < wanted);
+}
+
+/** The kernel's verdict on every window of the walk's sheet (detection's row scan at scale 1). */
+function evaluateSheet(walk: Walk, backgrounds: BackgroundWindows, detector: DetectorCascade, tally: { evaluated: number; seconds: number }): Uint8Array {
+  const started = performance.now();
+  const { integral } = backgrounds.level(walk.sheetIndex);
+  const accepted = new Uint8Array(walk.n);
+  const evaluator = new WindowListEvaluator(detector, integral, 1);
+  try {
+    evaluator.acceptEveryWindow(accepted);
+  } finally {
+    evaluator.release();
+  }
+  tally.evaluated += walk.n;
+  tally.seconds += (performance.now() - started) / 1000;
+  return accepted;
 }
 
 function greatestCommonDivisor(a: number, b: number): number {

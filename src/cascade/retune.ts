@@ -2,7 +2,8 @@ import { thresholdForDetectionRate } from '../boost/stage-threshold.js';
 import { checkNumber, checkThat } from '../check.js';
 import type { WindowSamples } from '../features/window-samples.js';
 import type { CascadeModel, Stage } from './cascade-model.js';
-import { stageScores } from './stage-score.js';
+import { detectorCascadeFromModel } from '../detect/detector-cascade.js';
+import { stageSampleScores } from '../detect/window-list.js';
 
 /** New targets for retuneCascade; give either or both. */
 export interface RetuneOptions {
@@ -50,10 +51,12 @@ export function retuneCascade(model: CascadeModel, positives: WindowSamples, opt
     positives.windowWidth === model.window.width && positives.windowHeight === model.window.height,
     `Positive windows are ${positives.windowWidth}×${positives.windowHeight}; the model window is ${model.window.width}×${model.window.height}.`,
   );
-  let alive = Array.from({ length: positives.count }, (_, i) => i);
+  // Flat positives can pass no stage (as in detection), so they never reach one.
+  let alive = Array.from({ length: positives.count }, (_, i) => i).filter((i) => positives.inverseStandardDeviations[i] !== 0);
   const report: RetunedStage[] = [];
+  const detector = detectorCascadeFromModel(model);
   const stages: Stage[] = model.stages.map((stage, index) => {
-    const scores = stageScores(stage, positives);
+    const scores = stageSampleScores(detector.stages[index]!, model.window.width, model.window.height, positives);
     let threshold = stage.threshold;
     if (rate !== undefined && alive.length > 0) {
       // The same rule training uses to set a stage threshold.

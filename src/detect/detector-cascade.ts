@@ -1,5 +1,5 @@
 import { featureCells, type WeightedRectangle } from '../features/haar-feature.js';
-import type { CascadeModel } from '../cascade/cascade-model.js';
+import type { CascadeModel, WeakClassifier } from '../model/cascade-model.js';
 
 /**
  * The part of a cascade that detection needs, with every feature spelled out as
@@ -43,12 +43,12 @@ export function detectorCascadeFromModel(model: Pick<CascadeModel, 'window' | 's
     windowHeight: model.window.height,
     stages: model.stages.map((stage) => ({
       threshold: stage.threshold,
-      weakClassifiers: stage.weakClassifiers.map((weak) => ({
-        rectangles: featureCells(weak.feature),
-        splitValue: weak.splitValue,
-        belowOutput: weak.belowOutput,
-        aboveOutput: weak.aboveOutput,
-      })),
+      weakClassifiers: stage.weakClassifiers.map(detectorWeakClassifier),
     })),
   };
+}
+
+/** One weak classifier of a model with its feature spelled out as weighted rectangles (featureCells). */
+export function detectorWeakClassifier(weak: WeakClassifier): DetectorWeakClassifier {
+  return { rectangles: featureCells(weak.feature), splitValue: weak.splitValue, belowOutput: weak.belowOutput, aboveOutput: weak.aboveOutput };
 }

@@ -1,5 +1,5 @@
 import { checkInteger, checkNumber } from '../check.js';
-import { intersectionOverUnion, type Box } from '../metrics/intersection-over-union.js';
+import { intersectionOverUnion, type Box } from './intersection-over-union.js';
 import type { RawHits } from './scan-image.js';
 
 /** One detection after merging: its box, score (see RawHits) and the number of raw hits behind it. */

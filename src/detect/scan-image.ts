@@ -1,6 +1,7 @@
 import { checkInteger, checkNumber, checkThat } from '../check.js';
 import type { IntegralImage } from '../image/integral-image.js';
 import { FLAT_WINDOW_VARIANCE } from '../image/window-statistics.js';
+import { compileCascadeAtScale } from './compiled-cascade.js';
 import type { DetectorCascade } from './detector-cascade.js';
 import {
   loadImageIntoKernel, TALLY_ACCEPTED, TALLY_FEATURES, TALLY_FLAT, TALLY_REJECTED, TALLY_WINDOWS, type KernelImage, type ScaledCascade,
@@ -88,65 +89,6 @@ export function scanScales(cascade: Pick<DetectorCascade, 'windowWidth' | 'windo
   return scales;
 }
 
-function compileAtScale(cascade: DetectorCascade, scale: number, stride: number, shift: number): ScaledCascade {
-  const stageEnds = new Int32Array(cascade.stages.length);
-  const thresholds = new Float64Array(cascade.stages.length);
-  const weakEnds: number[] = [];
-  const splitValues: number[] = [];
-  const belowOutputs: number[] = [];
-  const aboveOutputs: number[] = [];
-  const offsets: number[] = [];
-  const coefficients: number[] = [];
-  cascade.stages.forEach((stage, stageIndex) => {
-    for (const weak of stage.weakClassifiers) {
-      // Merge the four corners of every rectangle: shared corners are read once.
-      const corners = new Map<number, number>();
-      for (const rectangle of weak.rectangles) {
-        // Each edge is scaled and rounded once, as scaledFeatureCells does, so
-        // neighbouring cells stay contiguous; the weight is rebalanced by
-        // baseArea / scaledArea to keep the feature zero-mean and in base units.
-        const left = Math.round(rectangle.x * scale);
-        const top = Math.round(rectangle.y * scale);
-        const right = Math.round((rectangle.x + rectangle.width) * scale);
-        const bottom = Math.round((rectangle.y + rectangle.height) * scale);
-        const weight = (rectangle.weight * rectangle.width * rectangle.height) / ((right - left) * (bottom - top));
-        addCorner(corners, bottom * stride + right, weight);
-        addCorner(corners, bottom * stride + left, -weight);
-        addCorner(corners, top * stride + right, -weight);
-        addCorner(corners, top * stride + left, weight);
-      }
-      for (const [offset, coefficient] of [...corners.entries()].sort((a, b) => a[0] - b[0])) {
-        if (coefficient === 0) continue;
-        offsets.push(offset);
-        coefficients.push(coefficient);
-      }
-      weakEnds.push(offsets.length);
-      splitValues.push(weak.splitValue);
-      belowOutputs.push(weak.belowOutput);
-      aboveOutputs.push(weak.aboveOutput);
-    }
-    stageEnds[stageIndex] = weakEnds.length;
-    thresholds[stageIndex] = stage.threshold;
-  });
-  return {
-    windowWidth: Math.round(cascade.windowWidth * scale),
-    windowHeight: Math.round(cascade.windowHeight * scale),
-    step: Math.max(1, Math.round(shift * scale)),
-    stageEnds,
-    thresholds,
-    weakEnds: Int32Array.from(weakEnds),
-    splitValues: Float64Array.from(splitValues),
-    belowOutputs: Float64Array.from(belowOutputs),
-    aboveOutputs: Float64Array.from(aboveOutputs),
-    offsets: Int32Array.from(offsets),
-    coefficients: Float64Array.from(coefficients),
-  };
-}
-
-function addCorner(corners: Map<number, number>, offset: number, weight: number): void {
-  corners.set(offset, (corners.get(offset) ?? 0) + weight);
-}
-
 /**
  * Growable hit buffer in typed arrays (doubling), so that a cascade which
  * accepts many windows — an empty or a weak one — costs no boxed numbers.
@@ -191,12 +133,13 @@ class HitCollector {
  * the detector, not the image, is scaled; one integral image serves every scale).
  *
  * For each scale s (scanScales) every weak classifier is recompiled once to
- * corner offsets into the image's integral table; windows of round(W·s) ×
+ * corner offsets into the image's integral table (compileCascadeAtScale, the one compile step); windows of round(W·s) ×
  * round(H·s) pixels slide by max(1, round(shift·s)) pixels. Each window's σ
- * comes from the squared table (var = E[I²] − E[I]², as windowStatistics);
+ * comes from the squared table by the σ rule of inverseStandardDeviation;
  * windows with variance below FLAT_WINDOW_VARIANCE are rejected without
  * evaluating any feature (no division by zero). Feature values are multiplied
- * by 1/σ, exactly as training's stageScores does, and the window leaves at the
+ * by 1/σ, as training, mining and patch evaluation do through the same kernel
+ * (window-list.ts), and the window leaves at the
  * first stage it fails (early rejection, the attentional cascade of Viola & Jones 2004).
  *
  * The per-window work runs in the WebAssembly scan kernel (scan-kernel.wat),
@@ -224,7 +167,7 @@ export function scanImage(cascade: DetectorCascade, integral: IntegralImage, opt
     scales: 0,
   };
   const hits = new HitCollector();
-  const scaled = scanScales(cascade, integral.width, integral.height, resolved).map((scale) => compileAtScale(cascade, scale, integral.stride, resolved.shift));
+  const scaled = scanScales(cascade, integral.width, integral.height, resolved).map((scale) => compileCascadeAtScale(cascade, scale, integral.stride, resolved.shift));
   if (scaled.length === 0) return { hits: hits.toRawHits(), statistics };
   const capacity = {
     stages: cascade.stages.length,

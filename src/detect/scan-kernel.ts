@@ -50,6 +50,8 @@ interface KernelExports {
   readonly topRight: KernelGlobal;
   readonly inverseCount: KernelGlobal;
   readonly flatVariance: KernelGlobal;
+  readonly presetCount: KernelGlobal;
+  readonly keepAll: KernelGlobal;
 }
 
 // Record sizes of scan-kernel.wat's cascade layout, in bytes.
@@ -110,6 +112,8 @@ export class KernelImage {
   private readonly stagesAt: number;
   private readonly weaksAt: number;
   private readonly cornersAt: number;
+  private readonly listSlots: number;
+  private scale: ScaledCascade | undefined;
 
   constructor(exports: KernelExports, integral: IntegralImage, capacity: CascadeCapacity, columns: number) {
     this.exports = exports;
@@ -127,6 +131,7 @@ export class KernelImage {
     this.cornersAt = take(CORNER_RECORD * capacity.corners);
     // Past the widest row, the kernel needs three spare slots (it reads windows four at a time).
     const listSlots = columns + 4;
+    this.listSlots = listSlots;
     const windowsAt = take(4 * listSlots);
     const inverseDeviationsAt = take(8 * listSlots);
     const scoresAt = take(8 * listSlots);
@@ -151,7 +156,8 @@ export class KernelImage {
     }
     const buffer = memory.buffer;
     new Float64Array(buffer, this.sumAt, entries).set(integral.sum);
-    new Float64Array(buffer, squaredAt, entries).set(integral.squaredSum);
+    // (a window-list table may come without squared sums: lists carry their own 1/σ)
+    new Float64Array(buffer, squaredAt, integral.squaredSum.length).set(integral.squaredSum);
     new Float64Array(buffer, tallyAt, TALLY_REJECTED + capacity.stages).fill(0);
     exports.squaredDistance.value = squaredAt - this.sumAt;
     exports.windowsAt.value = windowsAt;
@@ -161,6 +167,8 @@ export class KernelImage {
     exports.stagesAt.value = this.stagesAt;
     exports.weaksAt.value = this.weaksAt;
     exports.cornersAt.value = this.cornersAt;
+    exports.presetCount.value = -1;
+    exports.keepAll.value = 0;
   }
 
   /** Writes the cascade compiled for one scale as the kernel's records (it must fit the capacity given at load). */
@@ -196,6 +204,51 @@ export class KernelImage {
     exports.topRight.value = 8 * c.windowWidth;
     exports.inverseCount.value = 1 / (c.windowWidth * c.windowHeight);
     exports.flatVariance.value = flatVariance;
+    this.scale = c;
+  }
+
+  /**
+   * Evaluates a list of windows at the scale set last: window i has its top-left at
+   * table entry `entries[i]` and 1/σ `inverseDeviations[i]` (non-zero: flat windows
+   * are the caller's to leave out, see inverseStandardDeviation), and it goes through
+   * stages fromStage … toStage − 1 with the arithmetic of scanRow. Returns how many
+   * passed; acceptedWindows lists them in list order with their margins. With
+   * `keepAll` every window is kept (count is returned unchanged) and its score is
+   * the margin of stage toStage − 1 even when negative, for callers that need the
+   * score of each stage.
+   */
+  scanList(entries: ArrayLike<number>, inverseDeviations: ArrayLike<number>, count: number, fromStage: number, toStage: number, keepAll: boolean): number {
+    const c = this.scale;
+    if (c === undefined) throw new RectboostError('invalid-option', 'scanList needs a scale: call setScale first.');
+    if (count > this.listSlots - 4) {
+      throw new RectboostError('invalid-option', `A window list of ${count} does not fit the ${this.listSlots - 4} slots this image was loaded with; load it with more columns.`);
+    }
+    const { exports } = this;
+    const buffer = exports.memory.buffer;
+    const addresses = new Uint32Array(buffer, exports.windowsAt.value, count);
+    const inverses = new Float64Array(buffer, exports.inverseDeviationsAt.value, count);
+    for (let i = 0; i < count; i++) {
+      addresses[i] = this.sumAt + 8 * entries[i]!;
+      inverses[i] = inverseDeviations[i]!;
+    }
+    const firstWeak = fromStage === 0 ? 0 : c.stageEnds[fromStage - 1]!;
+    const firstCorner = firstWeak === 0 ? 0 : c.weakEnds[firstWeak - 1]!;
+    exports.stagesAt.value = this.stagesAt + STAGE_RECORD * fromStage;
+    exports.weaksAt.value = this.weaksAt + WEAK_RECORD * firstWeak;
+    exports.cornersAt.value = this.cornersAt + CORNER_RECORD * firstCorner;
+    exports.stageCount.value = toStage - fromStage;
+    exports.presetCount.value = count;
+    exports.keepAll.value = keepAll ? 1 : 0;
+    try {
+      return exports.scanRow(this.sumAt, this.sumAt, 8);
+    } finally {
+      exports.presetCount.value = -1;
+      exports.keepAll.value = 0;
+      exports.stagesAt.value = this.stagesAt;
+      exports.weaksAt.value = this.weaksAt;
+      exports.cornersAt.value = this.cornersAt;
+      exports.stageCount.value = c.stageEnds.length;
+    }
   }
 
   /**

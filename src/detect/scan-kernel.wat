@@ -45,6 +45,13 @@
   (global $topRight (export "topRight") (mut i32) (i32.const 0))
   (global $inverseCount (export "inverseCount") (mut f64) (f64.const 0))
   (global $flatVariance (export "flatVariance") (mut f64) (f64.const 0))
+  ;; Window-list mode. presetCount ≥ 0: the live list already holds that many
+  ;; windows with their 1/σ (written by the caller, flat windows left out), so
+  ;; scanRow skips the row and starts at the first stage. keepAll = 1: every
+  ;; listed window survives every stage with its margin (score − threshold), in
+  ;; list order, so callers can read scores of windows that a stage rejects.
+  (global $presetCount (export "presetCount") (mut i32) (i32.const -1))
+  (global $keepAll (export "keepAll") (mut i32) (i32.const 0))
 
   ;; Adds `amount` to tally slot `slot` (once per row and stage, not per window).
   (func $addToTally (param $slot i32) (param $amount f64)
@@ -82,7 +89,7 @@
     (local $threshold v128) (local $keepA v128) (local $keepB v128)
     (local $bottomRight i32) (local $bottomLeft i32) (local $topRight i32) (local $squaredDistance i32)
     (local $windowsAt i32) (local $inverseDeviationsAt i32) (local $scoresAt i32)
-    (local $inverseCount v128) (local $flatVariance v128)
+    (local $inverseCount v128) (local $flatVariance v128) (local $keepAllMask v128)
     ;; Globals into locals once per row (the loops then keep them in registers).
     (local.set $bottomRight (global.get $bottomRight))
     (local.set $bottomLeft (global.get $bottomLeft))
@@ -94,6 +101,11 @@
     (local.set $inverseCount (f64x2.splat (global.get $inverseCount)))
     (local.set $flatVariance (f64x2.splat (global.get $flatVariance)))
 
+    ;; All ones when every window is kept (keepAll), else all zeros.
+    (local.set $keepAllMask (i64x2.splat (i64.extend_i32_u (i32.sub (i32.const 0) (global.get $keepAll)))))
+    (if (i32.ge_s (global.get $presetCount) (i32.const 0))
+      (then (local.set $count (global.get $presetCount)))
+      (else
     (local.set $fromRow (i32.and (i32.eq (local.get $step) (i32.const 8)) (i32.ne (global.get $stageCount) (i32.const 0))))
     (if (i32.eqz (local.get $fromRow))
       (then
@@ -150,7 +162,7 @@
             (local.set $window0 (i32.add (local.get $window1) (local.get $step)))
             (br $nextPair)))
         (call $addToTally (i32.const 0) (f64.convert_i32_u (local.get $windows)))
-        (call $addToTally (i32.const 1) (f64.convert_i32_u (i32.sub (local.get $windows) (local.get $count))))))
+        (call $addToTally (i32.const 1) (f64.convert_i32_u (i32.sub (local.get $windows) (local.get $count))))))))
 
     (local.set $stageAt (global.get $stagesAt))
     (local.set $stageWeaks (global.get $weaksAt))
@@ -317,8 +329,8 @@
               (br_if $nextWeak (i32.lt_u (local.get $weak) (local.get $weaksEnd)))))
             (local.set $scoreA (f64x2.sub (local.get $scoreA) (local.get $threshold)))
             (local.set $scoreB (f64x2.sub (local.get $scoreB) (local.get $threshold)))
-            (local.set $keepA (v128.not (f64x2.lt (local.get $scoreA) (f64x2.splat (f64.const 0)))))
-            (local.set $keepB (v128.not (f64x2.lt (local.get $scoreB) (f64x2.splat (f64.const 0)))))
+            (local.set $keepA (v128.or (local.get $keepAllMask) (v128.not (f64x2.lt (local.get $scoreA) (f64x2.splat (f64.const 0))))))
+            (local.set $keepB (v128.or (local.get $keepAllMask) (v128.not (f64x2.lt (local.get $scoreB) (f64x2.splat (f64.const 0))))))
             ;; Write all four at `kept`, each taking its slot only when taken and passing.
             (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window0))
             (v128.store64_lane 0 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseA))

@@ -1,5 +1,5 @@
 import { rectangleSum, type IntegralImage } from '../image/integral-image.js';
-import { windowStatistics } from '../image/window-statistics.js';
+import { windowInverseDeviation } from '../image/window-statistics.js';
 import { scaledFeatureCells, type HaarFeature } from './haar-feature.js';
 
 /**
@@ -18,7 +18,7 @@ export function evaluateFeature(integral: IntegralImage, feature: HaarFeature, w
 }
 
 /**
- * Variance-normalized value: the raw value divided by the standard deviation of
+ * Variance-normalized value: the raw value times 1/σ (windowInverseDeviation) of
  * the scaled window round(windowWidth·scale) × round(windowHeight·scale)
  * (Viola & Jones 2001 §5.1 normalize by the window's σ). A window a·I + b with
  * a > 0 gives the same value as I. Flat windows give 0.
@@ -32,9 +32,9 @@ export function evaluateNormalizedFeature(
   windowHeight: number,
   scale = 1,
 ): number {
-  const { standardDeviation } = windowStatistics(
+  const inverseDeviation = windowInverseDeviation(
     integral, windowX, windowY, Math.round(windowWidth * scale), Math.round(windowHeight * scale),
   );
-  if (standardDeviation === 0) return 0;
-  return evaluateFeature(integral, feature, windowX, windowY, scale) / standardDeviation;
+  if (inverseDeviation === 0) return 0;
+  return evaluateFeature(integral, feature, windowX, windowY, scale) * inverseDeviation;
 }

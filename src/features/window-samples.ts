@@ -1,7 +1,7 @@
 import { checkThat } from '../check.js';
 import type { GrayImage } from '../image/gray-image.js';
 import { computeIntegralImage } from '../image/integral-image.js';
-import { windowStatistics } from '../image/window-statistics.js';
+import { windowInverseDeviation } from '../image/window-statistics.js';
 
 /**
  * A set of training windows, all windowWidth × windowHeight, packed for fast
@@ -43,8 +43,7 @@ export function packWindowSamples(
     );
     const integral = computeIntegralImage(window);
     tables.set(integral.sum, s * tableSize);
-    const { standardDeviation } = windowStatistics(integral, 0, 0, windowWidth, windowHeight);
-    inverseStandardDeviations[s] = standardDeviation === 0 ? 0 : 1 / standardDeviation;
+    inverseStandardDeviations[s] = windowInverseDeviation(integral, 0, 0, windowWidth, windowHeight);
   }
   return { windowWidth, windowHeight, count: windows.length, tableSize, tables, inverseStandardDeviations };
 }

@@ -17,14 +17,39 @@ export interface WindowStatistics {
 }
 
 /**
+ * The window σ rule, the one home of it: every path that normalizes a window
+ * (training samples, mining, retuning, patch evaluation, detection) gets 1/σ from
+ * these operations in this order, so they all hold the same bits (the scan kernel's
+ * SIMD lanes repeat them operation for operation; a test compares the two):
+ *   mean = total · (1/n); variance = squaredTotal · (1/n) − mean · mean;
+ *   flat when variance < FLAT_WINDOW_VARIANCE (result 0), else 1 / √variance.
+ * `total` and `squaredTotal` are the window's pixel sum and squared-pixel sum
+ * (exact integers from the integral tables); `inversePixelCount` is 1 / (width · height).
+ */
+export function inverseStandardDeviation(total: number, squaredTotal: number, inversePixelCount: number): number {
+  const mean = total * inversePixelCount;
+  const variance = squaredTotal * inversePixelCount - mean * mean;
+  return variance < FLAT_WINDOW_VARIANCE ? 0 : 1 / Math.sqrt(variance);
+}
+
+/** 1/σ of the half-open window {x, y, width, height} (inverseStandardDeviation), 0 when flat. */
+export function windowInverseDeviation(integral: IntegralImage, x: number, y: number, width: number, height: number): number {
+  return inverseStandardDeviation(
+    rectangleSum(integral.sum, integral.stride, x, y, width, height),
+    rectangleSum(integral.squaredSum, integral.stride, x, y, width, height),
+    1 / (width * height),
+  );
+}
+
+/**
  * Mean and (population) standard deviation of the half-open window
- * {x, y, width, height}, in O(1) from the two tables: var = E[I²] − E[I]².
+ * {x, y, width, height}, in O(1) from the two tables: var = E[I²] − E[I]², with
+ * the arithmetic of inverseStandardDeviation (so 1 / standardDeviation is its result).
  * Returns standardDeviation 0 for flat windows (variance below FLAT_WINDOW_VARIANCE).
  */
 export function windowStatistics(integral: IntegralImage, x: number, y: number, width: number, height: number): WindowStatistics {
-  const count = width * height;
-  const mean = rectangleSum(integral.sum, integral.stride, x, y, width, height) / count;
-  const meanOfSquares = rectangleSum(integral.squaredSum, integral.stride, x, y, width, height) / count;
-  const variance = meanOfSquares - mean * mean;
+  const inverseCount = 1 / (width * height);
+  const mean = rectangleSum(integral.sum, integral.stride, x, y, width, height) * inverseCount;
+  const variance = rectangleSum(integral.squaredSum, integral.stride, x, y, width, height) * inverseCount - mean * mean;
   return { mean, standardDeviation: variance < FLAT_WINDOW_VARIANCE ? 0 : Math.sqrt(variance) };
 }

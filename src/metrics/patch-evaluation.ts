@@ -1,4 +1,5 @@
 import type { DetectorCascade } from '../detect/detector-cascade.js';
+import { cascadeDepths } from '../detect/window-list.js';
 import type { WindowSamples } from '../features/window-samples.js';
 import { rocCurve, type RocCurve } from './roc-curve.js';
 
@@ -10,35 +11,15 @@ import { rocCurve, type RocCurve } from './roc-curve.js';
  * k + m / (1 + |m|). Rejected samples score in (k − 1, k); accepted ones in
  * [S, S + 1) for a cascade of S stages, so "score ≥ S" is exactly the cascade's
  * own decision and lower thresholds trade false positives for detections.
- * Flat samples (σ = 0) read every feature as 0, as in training.
+ * Flat samples pass no stage, as in detection, and score −1, below every other.
+ * Margins come from the scan kernel (cascadeDepths), the bits detection computes.
  */
 export function cascadeDepthScores(cascade: DetectorCascade, samples: WindowSamples): { scores: Float64Array; stagesPassed: Int32Array } {
-  const stride = samples.windowWidth + 1;
+  const { stagesPassed, margins } = cascadeDepths(cascade, samples);
   const scores = new Float64Array(samples.count);
-  const stagesPassed = new Int32Array(samples.count);
   for (let s = 0; s < samples.count; s++) {
-    const base = s * samples.tableSize;
-    const table = samples.tables;
-    const inverseDeviation = samples.inverseStandardDeviations[s]!;
-    let passed = 0;
-    let margin = 0;
-    for (const stage of cascade.stages) {
-      let sum = 0;
-      for (const weak of stage.weakClassifiers) {
-        let value = 0;
-        for (const r of weak.rectangles) {
-          const top = base + r.y * stride;
-          const bottom = base + (r.y + r.height) * stride;
-          value += r.weight * (table[bottom + r.x + r.width]! - table[bottom + r.x]! - table[top + r.x + r.width]! + table[top + r.x]!);
-        }
-        sum += value * inverseDeviation < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
-      }
-      margin = sum - stage.threshold;
-      if (margin < 0) break;
-      passed++;
-    }
-    stagesPassed[s] = passed;
-    scores[s] = passed + margin / (1 + Math.abs(margin));
+    const margin = margins[s]!;
+    scores[s] = margin === -Infinity ? -1 : stagesPassed[s]! + margin / (1 + Math.abs(margin));
   }
   return { scores, stagesPassed };
 }

@@ -5,24 +5,10 @@ import { Worker } from 'node:worker_threads';
 import { betterSplit, type SplitCandidate } from '../boost/best-split.js';
 import { checkInteger } from '../check.js';
 import { RectboostError } from '../errors.js';
-import type { MatrixBuildJob, SplitSearchJob, WorkerReply, WorkerRequest } from './boosting-jobs.js';
+import type { BoostingPool } from '../boost/boosting-pool-contract.js';
+import type { WorkerReply, WorkerRequest } from './boosting-jobs.js';
 
-/**
- * A set of worker threads for training (DESIGN.md §4): they build the response
- * matrix and search each round's best split over shares of the features, on
- * SharedArrayBuffers. Create one, reuse it for every stage, close it at the end.
- * Results do not depend on the worker count (see searchBestSplit for tie-breaking).
- */
-export interface BoostingPool {
-  /** Number of worker threads, ≥ 1. */
-  readonly workers: number;
-  /** Fills every row of the shared response matrix described by `job`. */
-  buildMatrix(job: MatrixBuildJob, featureCount: number): Promise<void>;
-  /** The best split over all features: lowest error, ties to the lowest feature index. */
-  searchSplit(job: SplitSearchJob): Promise<SplitCandidate | null>;
-  /** Stops every worker; afterwards the pool keeps nothing alive and refuses work. */
-  close(): Promise<void>;
-}
+export type { BoostingPool };
 
 /** Default worker count: the cores Node reports (os.availableParallelism). */
 export function defaultWorkerCount(): number {

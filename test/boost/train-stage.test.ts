@@ -3,7 +3,8 @@ import { describe, expect, it } from 'vitest';
 import { buildResponseMatrix } from '../../src/boost/response-matrix.js';
 import { trainStage } from '../../src/boost/train-stage.js';
 import { thresholdForDetectionRate } from '../../src/boost/stage-threshold.js';
-import { stageScores } from '../../src/cascade/stage-score.js';
+import { detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
+import { stageSampleScores } from '../../src/detect/window-list.js';
 import { enumerateFeatures } from '../../src/features/enumerate-features.js';
 import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
 import { packWindowSamples } from '../../src/features/window-samples.js';
@@ -72,6 +73,8 @@ describeWithReferenceData('a stage trained on real faces vs non-faces (lfw_subse
       expect(rounds).toEqual(result.stage.weakClassifiers.map((_, i) => i + 1));
       // The model's own scoring (real values vs split values) reproduces the training rates.
       const { stage } = result;
+      const stageScores = (_: unknown, samples: typeof positives): Float64Array =>
+        stageSampleScores(detectorCascadeFromModel({ window: { width: 25, height: 25 }, stages: [stage] }).stages[0]!, 25, 25, samples);
       expect(rate(stageScores(stage, positives), stage.threshold)).toBe(result.detectionRate);
       expect(rate(stageScores(stage, negatives), stage.threshold)).toBe(result.falsePositiveRate);
       const testDetection = rate(stageScores(stage, testPositives), stage.threshold);

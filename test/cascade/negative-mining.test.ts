@@ -2,12 +2,13 @@ import seedrandom from 'seedrandom';
 import { describe, expect, it } from 'vitest';
 import type { CascadeModel, Stage } from '../../src/cascade/cascade-model.js';
 import { BackgroundWindows, mineHardNegatives, sampleUniformNegatives } from '../../src/cascade/negative-mining.js';
-import { stagesPassed } from '../../src/cascade/stage-score.js';
-import { compileCascade, countStagesPassed } from '../../src/cascade/window-classifier.js';
-import { packWindowSamples } from '../../src/features/window-samples.js';
+import { detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
+import { WindowListEvaluator } from '../../src/detect/window-list.js';
 import { cropGrayImage } from '../../src/image/gray-image.js';
 import { computeIntegralImage } from '../../src/image/integral-image.js';
+import { windowInverseDeviation } from '../../src/image/window-statistics.js';
 import { randomGrayImage } from '../helpers/random-image.js';
+import { twinDepth, twinStagesPassed } from '../helpers/window-twin.js';
 
 // A hand-built stage: accepts windows whose left half is brighter than the right half
 // by more than 0.3 σ (a two-horizontal feature over the whole 8×6 window).
@@ -46,8 +47,7 @@ describe('background windows', () => {
   it('mines only windows that the cascade so far accepts', () => {
     const mined = mineHardNegatives(backgrounds, cascade, 50, seedrandom('m'));
     expect(mined.negatives.length).toBe(50);
-    const passed = stagesPassed(cascade, packWindowSamples(mined.negatives, 8, 6));
-    expect(Array.from(passed).every((p) => p === 1)).toBe(true);
+    expect(twinStagesPassed(cascade, mined.negatives).every((p) => p === 1)).toBe(true);
     // Accepted windows are a strict subset: scanning took more windows than it kept.
     expect(mined.windowsScanned).toBeGreaterThan(50);
   });
@@ -56,37 +56,49 @@ describe('background windows', () => {
     const mined = mineHardNegatives(backgrounds, cascade, 1_000_000, seedrandom('x'));
     expect(mined.exhausted).toBe(true);
     expect(mined.windowsScanned).toBe(backgrounds.totalWindows);
-    // Brute force: count accepted windows level by level.
+    // Brute force: the twin on every window of every level.
     let accepted = 0;
     backgrounds.sheets.forEach((_, sheetIndex) => {
-      const { image, integral } = backgrounds.level(sheetIndex);
-      const compiled = compileCascade(cascade, integral.stride);
-      for (let y = 0; y + 6 <= image.height; y++) for (let x = 0; x + 8 <= image.width; x++) if (countStagesPassed(compiled, integral, x, y) === 1) accepted++;
+      const { image } = backgrounds.level(sheetIndex);
+      for (let y = 0; y + 6 <= image.height; y++) for (let x = 0; x + 8 <= image.width; x++) if (twinDepth(cascade, cropGrayImage(image, x, y, 8, 6)).stagesPassed === 1) accepted++;
     });
     expect(mined.negatives.length).toBe(accepted);
+    expect(mined.windowsEvaluated).toBe(backgrounds.totalWindows);
   });
 });
 
-describe('window classifier', () => {
-  it('agrees with scale-1 stage scoring on cropped windows (same σ, same sums)', () => {
+describe('window lists on a background table', () => {
+  it('accept exactly the windows the twin accepts on their crops, flat windows never', () => {
     const image = randomGrayImage(30, 20, 'agree');
+    // A flat 9×7 patch: windows inside it are flat and must be rejected unlisted.
+    for (let y = 2; y < 9; y++) image.data.fill(77, y * 30 + 3, y * 30 + 12);
     const integral = computeIntegralImage(image);
-    const compiled = compileCascade(cascade, integral.stride);
-    const crops = [];
-    const direct = [];
-    for (let y = 0; y + 6 <= 20; y += 3) {
-      for (let x = 0; x + 8 <= 30; x += 2) {
-        crops.push(cropGrayImage(image, x, y, 8, 6));
-        direct.push(countStagesPassed(compiled, integral, x, y));
+    const entries: number[] = [];
+    const inverses: number[] = [];
+    const expected: number[] = [];
+    let flat = 0;
+    for (let y = 0; y + 6 <= 20; y++) {
+      for (let x = 0; x + 8 <= 30; x++) {
+        const twin = twinDepth(cascade, cropGrayImage(image, x, y, 8, 6));
+        const inverse = windowInverseDeviation(integral, x, y, 8, 6);
+        if (inverse === 0) {
+          flat++;
+          expect(twin.stagesPassed).toBe(0);
+          continue;
+        }
+        entries.push(y * integral.stride + x);
+        inverses.push(inverse);
+        expected.push(twin.stagesPassed);
       }
     }
-    expect(Array.from(stagesPassed(cascade, packWindowSamples(crops, 8, 6)))).toEqual(direct);
-  });
-
-  it('a cascade with no stages accepts every window; flat windows fail a non-empty cascade', () => {
-    const flat = computeIntegralImage({ width: 10, height: 10, data: new Uint8Array(100).fill(9) });
-    expect(countStagesPassed(compileCascade({ window: { width: 8, height: 6 }, stages: [] }, 11), flat, 0, 0)).toBe(0);
-    expect(stagesPassed({ stages: [] }, packWindowSamples([randomGrayImage(8, 6, 'any')], 8, 6))[0]).toBe(0);
-    expect(countStagesPassed(compileCascade(cascade, 11), flat, 1, 1)).toBe(0);
+    expect(flat).toBeGreaterThan(0);
+    const evaluator = new WindowListEvaluator(detectorCascadeFromModel(cascade), integral, entries.length);
+    const accepted = new Uint8Array(entries.length);
+    const passed = evaluator.accept(entries, inverses, entries.length, accepted);
+    evaluator.release();
+    expect(Array.from(accepted)).toEqual(expected);
+    expect(passed).toBe(expected.filter((p) => p === 1).length);
+    expect(passed).toBeGreaterThan(0);
+    expect(passed).toBeLessThan(entries.length);
   });
 });

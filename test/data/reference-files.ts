@@ -26,15 +26,26 @@ export function shouldRunWith(relativePath: string): boolean {
  * collects it — and one skipped test stands in its place, named for what is missing and
  * how to get it. Under CI the body always runs (see shouldRunWith).
  */
+/** Why a test over `relativePaths` is skipped, and how to get the data. */
+function missingReason(relativePaths: readonly string[]): string {
+  const missing = missingReferenceFiles(relativePaths);
+  const files = `reference-data/${missing[0]}${missing.length > 1 ? ` and ${missing.length - 1} more files` : ''}`;
+  return `needs ${files}: run \`npm test\` as root with apt (it fetches them) or \`bash scripts/fetch-reference-data.sh\``;
+}
+
+/** One test over open reference data: like describeWithReferenceData, for a single `it`. */
+export function itWithReferenceData(title: string, relativePaths: readonly string[], body: () => Promise<void> | void): void {
+  if (relativePaths.every(shouldRunWith)) it(title, body);
+  else it.skip(`${title} (${missingReason(relativePaths)})`, () => undefined);
+}
+
 export function describeWithReferenceData(title: string, relativePaths: readonly string[], body: () => void): void {
   if (relativePaths.every(shouldRunWith)) {
     describe(title, body);
     return;
   }
-  const missing = missingReferenceFiles(relativePaths);
-  const files = `reference-data/${missing[0]}${missing.length > 1 ? ` and ${missing.length - 1} more files` : ''}`;
   describe.skip(title, () => {
     // A placeholder whose name is the reason: vitest lists it as skipped.
-    it.skip(`needs ${files}: run \`npm test\` as root with apt (it fetches them) or \`bash scripts/fetch-reference-data.sh\``, () => undefined);
+    it.skip(missingReason(relativePaths), () => undefined);
   });
 }

@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { trainCascade } from '../../src/cascade/build-cascade.js';
 import type { CascadeModel } from '../../src/cascade/cascade-model.js';
-import { stagesPassed } from '../../src/cascade/stage-score.js';
+import { twinStagesPassed } from '../helpers/window-twin.js';
 import type { DetectorCascade } from '../../src/detect/detector-cascade.js';
 import { detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
 import { mergeDetections } from '../../src/detect/merge-detections.js';
@@ -83,7 +83,7 @@ describe('multiscale scan', () => {
     expect(b.statistics).toEqual(a.statistics);
   });
 
-  it('at scale 1 accepts exactly the windows that training-side stagesPassed accepts (brute-force twin over every position)', () => {
+  it('at scale 1 accepts exactly the windows that the window-by-window twin accepts (brute-force twin over every position)', () => {
     const { image } = syntheticScene(SIDE);
     const small = cropGrayImage(image, 0, 0, 40, 30);
     const { hits } = scanImage(cascade, computeIntegralImage(small), { scaleStep: 4, largestSide: SIDE });
@@ -93,7 +93,7 @@ describe('multiscale scan', () => {
       windows.push(cropGrayImage(small, x, y, SIDE, SIDE));
       positions.push(`${x},${y}`);
     }
-    const passed = stagesPassed(model, packWindowSamples(windows, SIDE, SIDE));
+    const passed = twinStagesPassed(model, windows);
     const expected = positions.filter((_, i) => passed[i] === model.stages.length);
     const found = Array.from({ length: hits.count }, (_, i) => `${hits.x[i]},${hits.y[i]}`);
     expect(expected.length).toBeGreaterThan(0);

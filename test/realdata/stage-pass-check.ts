@@ -1,6 +1,6 @@
 import { expect } from 'vitest';
 import type { CascadeModel } from '../../src/cascade/cascade-model.js';
-import { stagesPassed } from '../../src/cascade/stage-score.js';
+import { twinStagesPassed } from '../helpers/window-twin.js';
 import { detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
 import { packWindowSamples } from '../../src/features/window-samples.js';
 import type { GrayImage } from '../../src/image/gray-image.js';
@@ -8,18 +8,19 @@ import { cascadeDepthScores, evaluatePatches } from '../../src/metrics/patch-eva
 
 /**
  * Peer-free sanity check of patch-level evaluation: two independent code paths must agree.
- * `stagesPassed` (training's scorer: compiled corner lists over the packed integral tables)
- * and `evaluatePatches` (evaluation's scorer: the detector form, weighted rectangles spelled
- * out) share no evaluation code, so equal per-sample depths, per-stage pass rates recounted
- * from those depths, and the overall rates are evidence that both read the model the same way.
+ * the window-by-window twin (test/helpers/window-twin.ts: each feature from its rectangles on
+ * each window's own integral image) and `evaluatePatches` (the scan kernel over the packed
+ * sample tables) share no evaluation code but the σ rule, so equal per-sample depths, per-stage
+ * pass rates recounted from those depths, and the overall rates are evidence that both read the
+ * model the same way.
  */
 export function expectStagePassRatesMatchStagesPassed(model: Pick<CascadeModel, 'window' | 'stages'>, positives: readonly GrayImage[], negatives: readonly GrayImage[]): void {
   const { width, height } = model.window;
   const positiveSamples = packWindowSamples(positives, width, height);
   const negativeSamples = packWindowSamples(negatives, width, height);
   const detector = detectorCascadeFromModel(model);
-  const positiveDepths = stagesPassed(model, positiveSamples);
-  const negativeDepths = stagesPassed(model, negativeSamples);
+  const positiveDepths = Int32Array.from(twinStagesPassed(model, positives));
+  const negativeDepths = Int32Array.from(twinStagesPassed(model, negatives));
   expect(Array.from(cascadeDepthScores(detector, positiveSamples).stagesPassed)).toEqual(Array.from(positiveDepths));
   expect(Array.from(cascadeDepthScores(detector, negativeSamples).stagesPassed)).toEqual(Array.from(negativeDepths));
 

@@ -205,7 +205,8 @@ function showEvent(progress: ProgressLine, event: TrainModelEvent, options: Trai
       const r = event.report;
       progress.log(
         `stage ${r.stageIndex + 1} saved: ${r.weakClassifiers} weak, detection ${r.detectionRate.toFixed(4)}, false positives ${r.falsePositiveRate.toFixed(4)}, ` +
-          `overall ${formatRate(r.overallFalsePositiveRate)}, ${r.negatives} negatives from ${formatCount(r.windowsScanned)} windows, ${formatDuration(r.seconds)}`,
+          `overall ${formatRate(r.overallFalsePositiveRate)}, ${r.negatives} negatives from ${formatCount(r.windowsScanned)} windows` +
+          `${r.miningWindowsPerSecond === undefined ? '' : ` (mining ${(r.miningWindowsPerSecond / 1e6).toFixed(1)} M windows/s)`}, ${formatDuration(r.seconds)}`,
       );
       break;
     }

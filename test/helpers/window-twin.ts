@@ -1,0 +1,49 @@
+import type { CascadeModel, Stage } from '../../src/cascade/cascade-model.js';
+import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
+import type { GrayImage } from '../../src/image/gray-image.js';
+import { computeIntegralImage } from '../../src/image/integral-image.js';
+import { windowInverseDeviation } from '../../src/image/window-statistics.js';
+
+/**
+ * The plain-JS, window-by-window reference for evaluation over lists of windows (the
+ * twin of src/detect/window-list.ts and the scan kernel): each window gets its own
+ * integral image, its σ from the σ rule (windowInverseDeviation), every feature from
+ * its rectangles (evaluateNormalizedFeature), outputs summed from 0 in order, and a
+ * stage passes when score − threshold ≥ 0 (the kernel's test, written the kernel's way).
+ * Flat windows pass no stage of any cascade and score −∞.
+ */
+export interface TwinDepth {
+  /** Stages passed before the first failure (stages.length when accepted). */
+  readonly stagesPassed: number;
+  /** Margin of the failing stage, or of the last when accepted (0 without stages); −∞ when flat. */
+  readonly margin: number;
+}
+
+/** Σ outputs of one stage on one window; −∞ for a flat window. */
+export function twinStageScore(stage: Pick<Stage, 'weakClassifiers'>, window: GrayImage): number {
+  const integral = computeIntegralImage(window);
+  if (windowInverseDeviation(integral, 0, 0, window.width, window.height) === 0) return -Infinity;
+  let score = 0;
+  for (const weak of stage.weakClassifiers) {
+    score += evaluateNormalizedFeature(integral, weak.feature, 0, 0, window.width, window.height) < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
+  }
+  return score;
+}
+
+/** How far one window gets through the cascade. */
+export function twinDepth(model: Pick<CascadeModel, 'stages'>, window: GrayImage): TwinDepth {
+  const integral = computeIntegralImage(window);
+  if (windowInverseDeviation(integral, 0, 0, window.width, window.height) === 0) return { stagesPassed: 0, margin: -Infinity };
+  let margin = 0;
+  for (let k = 0; k < model.stages.length; k++) {
+    const stage = model.stages[k]!;
+    margin = twinStageScore(stage, window) - stage.threshold;
+    if (margin < 0) return { stagesPassed: k, margin };
+  }
+  return { stagesPassed: model.stages.length, margin };
+}
+
+/** Stages passed by each window (the old training-side scorer's contract, now a test twin). */
+export function twinStagesPassed(model: Pick<CascadeModel, 'stages'>, windows: readonly GrayImage[]): number[] {
+  return windows.map((window) => twinDepth(model, window).stagesPassed);
+}
