@@ -113,8 +113,8 @@ export { detectFiles, detectEntries, type DetectFilesOptions, type FileOutcome, 
 
 // --- Large batches (issue 15): image lists, shards (also from Slurm array variables), resumable shard files, join
 export { imageListEntries, readImageList, type ImageListEntry } from './data/image-list.js';
-export { parseShard, shardFromEnvironment, shardOfLine, lineInShard, WHOLE_LIST, type Shard } from './parallel/shard.js';
-export { formatDetectionLine, DETECTIONS_VERSION, type DetectionLineOptions } from './io/detections-file.js';
+export { parseShard, shardFromEnvironment, shardOfLine, lineInShard, WHOLE_LIST, type Shard } from './data/shard.js';
+export { formatDetectionLine, DETECTIONS_VERSION, type DetectionLineOptions } from './parallel/detections-file.js';
 export { openShardOutput, shardPaths, type ShardOutput, type ShardDoneMarker, type ShardRunFigures } from './parallel/shard-output.js';
 export { joinShards, type JoinSummary } from './parallel/join-shards.js';
 
@@ -147,7 +147,7 @@ export {
   type StageReport,
   type TrainingEvent,
 } from './cascade/build-cascade.js';
-export { trainModel, TOOL_NAME, INTERRUPTED_STOP_REASON, type TrainModelOptions, type TrainModelEvent, type TrainedModel } from './io/train-model.js';
+export { trainModel, TOOL_NAME, INTERRUPTED_STOP_REASON, type TrainModelOptions, type TrainModelEvent, type TrainedModel } from './jobs/train-model.js';
 export { loadCascadeModel, saveCascadeModel, loadCascadeFile, loadFullModel, type LoadedCascade } from './io/model-file.js';
 export { readCheckpoint, writeCheckpoint, removeCheckpoint, type Checkpoint, type TrainingFingerprint } from './io/checkpoint.js';
 export { loadPositiveWindows, type LoadedPositives, type PositiveLoadOptions } from './data/positives.js';

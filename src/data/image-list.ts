@@ -2,7 +2,7 @@ import { createReadStream } from 'node:fs';
 import { createInterface } from 'node:readline';
 import type { Readable } from 'node:stream';
 import { RectboostError } from '../errors.js';
-import { lineInShard, WHOLE_LIST, type Shard } from '../parallel/shard.js';
+import { lineInShard, WHOLE_LIST, type Shard } from '../data/shard.js';
 
 /** One image of an image list: its 1-based line number and the path as written. */
 export interface ImageListEntry {

@@ -2,10 +2,10 @@ import { readdir, readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { RectboostError } from '../errors.js';
 import { writeLinesAtomic } from '../io/atomic-write.js';
-import { listLineOfDetectionLine } from '../io/detections-file.js';
+import { listLineOfDetectionLine } from './detections-file.js';
 import { mergeAscending } from './ordered-merge.js';
 import { fileLines, shardPaths, type ShardDoneMarker } from './shard-output.js';
-import { parseShardFileStem, shardOfLine, type Shard } from './shard.js';
+import { parseShardFileStem, shardOfLine, type Shard } from '../data/shard.js';
 
 /** What joinShards wrote. */
 export interface JoinSummary {

@@ -5,8 +5,8 @@ import { join } from 'node:path';
 import { createInterface } from 'node:readline';
 import { RectboostError } from '../errors.js';
 import { writeFileAtomic, writeLinesAtomic } from '../io/atomic-write.js';
-import { listLineOfDetectionLine } from '../io/detections-file.js';
-import { shardFileStem, type Shard } from './shard.js';
+import { listLineOfDetectionLine } from './detections-file.js';
+import { shardFileStem, type Shard } from '../data/shard.js';
 
 /** What one run of a shard did, as recorded in its `.done.json` marker. */
 export interface ShardRunFigures {

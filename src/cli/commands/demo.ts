@@ -8,7 +8,7 @@ import { detectorCascadeFromModel } from '../../detect/detector-cascade.js';
 import { writeFileAtomic } from '../../io/atomic-write.js';
 import { DETECTION_COLOUR, TRUTH_COLOUR, drawBoxes } from '../../io/draw-boxes.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
-import { trainModel } from '../../io/train-model.js';
+import { trainModel } from '../../jobs/train-model.js';
 import { evaluateDetections, summarizeScans } from '../../metrics/detection-evaluation.js';
 import type { ScanStatistics } from '../../detect/scan-image.js';
 import { assembleReportContent, writeReportFiles } from '../../io/report-files.js';

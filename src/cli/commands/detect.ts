@@ -6,17 +6,17 @@ import { listImageFilesOfAll } from '../../data/list-images.js';
 import { RectboostError } from '../../errors.js';
 import { runtimeFileFromDetector } from '../../cascade/runtime-export.js';
 import { writeFileAtomic } from '../../io/atomic-write.js';
-import { formatDetectionLine } from '../../io/detections-file.js';
+import { formatDetectionLine } from '../../parallel/detections-file.js';
 import { DETECTION_COLOUR, drawBoxes } from '../../io/draw-boxes.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
 import { detectEntries, type ImageDetections } from '../../parallel/detect-files.js';
 import { loadCascadeFile } from '../../io/model-file.js';
 import { openShardOutput, type ShardOutput } from '../../parallel/shard-output.js';
-import { parseShard, shardFromEnvironment, WHOLE_LIST } from '../../parallel/shard.js';
+import { parseShard, shardFromEnvironment, WHOLE_LIST } from '../../data/shard.js';
 import { formatCount, createProgressLine } from '../progress.js';
 import { addScanOptions, parseScanOptions, type ScanOptionText } from '../scan-options.js';
 
-export { DETECTIONS_VERSION } from '../../io/detections-file.js';
+export { DETECTIONS_VERSION } from '../../parallel/detections-file.js';
 
 /** One JSON line of the detections file (with timing; see formatDetectionLine). */
 export function detectionLine(result: ImageDetections): string {

@@ -5,7 +5,7 @@ import { formatRate, type StageReport } from '../../cascade/build-cascade.js';
 import { RectboostError } from '../../errors.js';
 import { detectorCascadeFromModel } from '../../detect/detector-cascade.js';
 import { MAX_WINDOW_SIDE } from '../../features/enumerate-features.js';
-import { TOOL_NAME, trainModel, type TrainedModel, type TrainModelEvent, type TrainModelOptions } from '../../io/train-model.js';
+import { TOOL_NAME, trainModel, type TrainedModel, type TrainModelEvent, type TrainModelOptions } from '../../jobs/train-model.js';
 import { parseChoice, parseInteger, parseNumber, parseWindowSize } from '../parse-options.js';
 import { ProgressLine, formatCount, formatDuration } from '../progress.js';
 import { renderTable } from '../text-table.js';

@@ -5,8 +5,8 @@ import { newCascadeModel, type CascadeModel, type Stage } from '../cascade/casca
 import { loadBackgroundImages } from '../data/backgrounds.js';
 import { loadPositiveWindows } from '../data/positives.js';
 import { RectboostError, isRectboostError } from '../errors.js';
-import { readCheckpoint, removeCheckpoint, writeCheckpoint, type TrainingFingerprint } from './checkpoint.js';
-import { saveCascadeModel } from './model-file.js';
+import { readCheckpoint, removeCheckpoint, writeCheckpoint, type TrainingFingerprint } from '../io/checkpoint.js';
+import { saveCascadeModel } from '../io/model-file.js';
 import { createBoostingPool } from '../parallel/boosting-pool.js';
 
 /** Default of `TrainModelOptions.tool`, recorded in every model's provenance. */

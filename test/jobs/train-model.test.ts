@@ -6,7 +6,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { parseCascadeModel } from '../../src/cascade/model-json.js';
-import { trainModel, type TrainModelEvent, type TrainModelOptions } from '../../src/io/train-model.js';
+import { trainModel, type TrainModelEvent, type TrainModelOptions } from '../../src/jobs/train-model.js';
 import { writeSyntheticTrainingData } from '../helpers/synthetic-data.js';
 
 const root = mkdtempSync(join(tmpdir(), 'rectboost-train-model-'));

@@ -1,5 +1,5 @@
 import { RectboostError } from '../errors.js';
-import type { ImageDetections } from '../parallel/detect-files.js';
+import type { ImageDetections } from './detect-files.js';
 
 /** Version of the detections JSON Lines layout (DESIGN §3). */
 export const DETECTIONS_VERSION = 1;

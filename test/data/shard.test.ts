@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { imageListEntries } from '../../src/data/image-list.js';
-import { lineInShard, parseShard, parseShardFileStem, shardFileStem, shardFromEnvironment } from '../../src/parallel/shard.js';
+import { lineInShard, parseShard, parseShardFileStem, shardFileStem, shardFromEnvironment } from '../../src/data/shard.js';
 import { errorOf } from '../helpers/error-of.js';
 
 function messageOf(action: () => unknown): string {
