@@ -13,8 +13,8 @@ import { addScanOptions, parseScanOptions, type ScanOptionText } from '../scan-o
 /** Version of the detections JSON Lines layout (DESIGN §3). */
 export const DETECTIONS_VERSION = 1;
 
-/** One JSON line of the detections file. */
-export function detectionLine(result: ImageDetections): string {
+/** One JSON line of the detections file; `timing: false` leaves "milliseconds" out (a deterministic line). */
+export function detectionLine(result: ImageDetections, timing = true): string {
   return JSON.stringify({
     version: DETECTIONS_VERSION,
     image: result.image,
@@ -22,7 +22,7 @@ export function detectionLine(result: ImageDetections): string {
     height: result.height,
     detections: result.detections.map((d) => ({ box: d.box, score: d.score, support: d.support })),
     windowsScanned: result.windowsScanned,
-    milliseconds: Math.round(result.milliseconds * 100) / 100,
+    ...(timing ? { milliseconds: Math.round(result.milliseconds * 100) / 100 } : {}),
   });
 }
 
@@ -34,10 +34,11 @@ export function registerDetectCommand(program: Command): void {
     .argument('<model>', 'model JSON from rectboost train, or a runtime export')
     .argument('<images...>', 'image files or folders (searched recursively)')
     .option('--out <file>', 'write the detections JSON Lines here instead of stdout')
-    .option('--draw <folder>', 'also write each image as PNG with its detections outlined');
+    .option('--draw <folder>', 'also write each image as PNG with its detections outlined')
+    .option('--no-timing', 'leave "milliseconds" out, so that the lines are the same on every run');
   addScanOptions(command)
     .addHelpText('after', '\nExamples:\n  rectboost detect model.json scenes/ --out detections.jsonl\n  rectboost detect model.json photo.jpg --merge mean --min-support 3 --draw annotated/\n')
-    .action(async (modelPath: string, paths: string[], options: ScanOptionText & { out?: string; draw?: string }) => {
+    .action(async (modelPath: string, paths: string[], options: ScanOptionText & { out?: string; draw?: string; timing: boolean }) => {
       const parsed = parseScanOptions(options);
       const { detector } = await loadCascadeFile(modelPath);
       const files = await listImageFilesOfAll(paths);
@@ -60,7 +61,7 @@ export function registerDetectCommand(program: Command): void {
           process.stderr.write(`rectboost: skipped: ${message}\n`);
           continue;
         }
-        const line = detectionLine(outcome.result);
+        const line = detectionLine(outcome.result, options.timing);
         if (options.out === undefined) process.stdout.write(`${line}\n`);
         else lines.push(line);
         if (options.draw !== undefined) {
