@@ -88,7 +88,11 @@ export function scanScales(cascade: Pick<DetectorCascade, 'windowWidth' | 'windo
   return scales;
 }
 
-function compileAtScale(cascade: DetectorCascade, scale: number, stride: number, shift: number): ScaledCascade {
+/**
+ * The cascade compiled for one scale of an image whose integral table has `stride`
+ * (the records the scan kernel reads; the runtime's plain-JS scan reads the same).
+ */
+export function compileAtScale(cascade: DetectorCascade, scale: number, stride: number, shift: number): ScaledCascade {
   const stageEnds = new Int32Array(cascade.stages.length);
   const thresholds = new Float64Array(cascade.stages.length);
   const weakEnds: number[] = [];
