@@ -8,6 +8,8 @@ import { C_SANITIZER_FLAGS, compileC, compilerVersion, exportC, writePgm } from 
 import { cWorkBytes, exportCDetector } from '../../src/cascade/c-export.js';
 import { detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
 import { decodeGrayImageFile } from '../../src/io/decode-image.js';
+import { encodeGrayPng } from '../../src/io/encode-image.js';
+import { cropGrayImage } from '../../src/image/gray-image.js';
 import { parseCascadeModel } from '../../src/cascade/model-json.js';
 import { REFERENCE_DATA, shouldRunWith } from '../data/reference-files.js';
 import { runCli } from '../helpers/run-cli.js';
@@ -73,6 +75,14 @@ function expectSameText(received: string, expected: string): void {
   expect({ at, received: around(received), length: received.length }).toEqual({ at: expected.length === received.length && at === received.length ? at : -1, received: around(expected), length: expected.length });
 }
 
+describe('export without a destination', () => {
+  it('is a usage error (exit 2) naming --out and --c', () => {
+    const result = runCli(['export', MODEL]);
+    expect(result.status).toBe(2);
+    expect(result.stderr).toMatch(/--out FILE, --c FOLDER/);
+  });
+});
+
 const panelFiles = readdirSync(PANELS).filter((f) => f.endsWith('.png')).sort();
 
 describe.skipIf(!haveCompiler)(`C99 export compiled with ${compiler ?? 'cc'}`, () => {
@@ -122,6 +132,26 @@ describe.skipIf(!haveCompiler)(`C99 export compiled with ${compiler ?? 'cc'}`, (
       expect(reported.workBytes).toBe(cWorkBytes(detector, build, 640, 480, 16384));
       expect(footprintText).toContain(`${reported.workBytes} bytes (${build} build)`);
     }
+  });
+
+  it('a cascade without stages compiles under -Werror and, like detect, accepts every window that is not flat (score 0)', async () => {
+    const emptyDir = join(dir, 'empty');
+    const cascade = join(dir, 'empty.json');
+    writeFileSync(cascade, JSON.stringify({ format: 'rectboost-runtime-cascade', version: 1, window: { width: 12, height: 10 }, normalization: 'window-standard-deviation', stages: [] }));
+    exportC(cascade, emptyDir);
+    const program = compileC(emptyDir, 'detect-empty', 'float', C_SANITIZER_FLAGS);
+    // A 64 × 48 crop of demo panel p01, as PNG for the CLI and as PGM for the C program.
+    const crop = cropGrayImage(await decodeGrayImageFile(`${PANELS}p01.png`), 40, 190, 64, 48);
+    const source = join(dir, 'crop.png');
+    const pgm = join(dir, 'crop.pgm');
+    writeFileSync(source, await encodeGrayPng(crop));
+    writePgm(pgm, crop);
+    const out = join(dir, 'empty.jsonl');
+    expect(runCli(['detect', cascade, source, '--no-timing', '--quiet', '--workers', '0', '--out', out]).status).toBe(0);
+    const c = runC(program, ['--no-timing', pgm]);
+    expect(c.stderr).toBe('');
+    expect(c.stdout).toMatch(/"support":\d+/);
+    expectSameText(c.stdout, readFileSync(out, 'utf8').replace(JSON.stringify(source), JSON.stringify(pgm)));
   });
 
   describe('integer build', () => {
