@@ -23,8 +23,6 @@ export interface CDetectorExport {
 export const C_VOTE_BITS = 24;
 /** Largest window (pixels) the integer build scans: 255² · n ≤ 2³² − 1 (RBD_MAX_WINDOW_PIXELS). */
 export const C_INTEGER_MAX_WINDOW_PIXELS = 66051;
-/** Largest image (pixels) of the integer build: 255 · n ≤ 2³² − 1 (RBD_MAX_IMAGE_PIXELS). */
-export const C_INTEGER_MAX_IMAGE_PIXELS = 16_843_009;
 
 /**
  * Writes a cascade as a self-contained C99 detector (runtime-c/ holds the
