@@ -109,7 +109,14 @@ export { loadAnnotations, parseAnnotations, type AnnotatedImage } from './data/a
 export { drawBoxes, DETECTION_COLOUR, TRUTH_COLOUR, type RgbColour } from './io/draw-boxes.js';
 export { drawFeatureSheet, POSITIVE_CELL_COLOUR, NEGATIVE_CELL_COLOUR } from './io/draw-features.js';
 export { createScanPool, type ScanPool, type TimedScanResult } from './parallel/scan-pool.js';
-export { detectFiles, type DetectFilesOptions, type FileOutcome, type ImageDetections } from './parallel/detect-files.js';
+export { detectFiles, detectEntries, type DetectFilesOptions, type FileOutcome, type ImageDetections } from './parallel/detect-files.js';
+
+// --- Large batches (issue 15): image lists, shards (also from Slurm array variables), resumable shard files, join
+export { imageListEntries, readImageList, type ImageListEntry } from './data/image-list.js';
+export { parseShard, shardFromEnvironment, shardOfLine, lineInShard, WHOLE_LIST, type Shard } from './parallel/shard.js';
+export { formatDetectionLine, DETECTIONS_VERSION, type DetectionLineOptions } from './io/detections-file.js';
+export { openShardOutput, shardPaths, type ShardOutput, type ShardDoneMarker, type ShardRunFigures } from './parallel/shard-output.js';
+export { joinShards, type JoinSummary } from './parallel/join-shards.js';
 
 // --- Peer benchmark support (issue 7): .npy writing for exchanging arrays with NumPy-based libraries
 export { encodeNpy, encodeNpyHeader, writeNpyFile, type NpyData, type NpyElementType } from './data/npy-writer.js';
@@ -140,8 +147,24 @@ export {
   type StageReport,
   type TrainingEvent,
 } from './cascade/build-cascade.js';
+export { trainModel, TOOL_NAME, INTERRUPTED_STOP_REASON, type TrainModelOptions, type TrainModelEvent, type TrainedModel } from './io/train-model.js';
 export { loadCascadeModel, saveCascadeModel, loadCascadeFile, loadFullModel, type LoadedCascade } from './io/model-file.js';
 export { readCheckpoint, writeCheckpoint, removeCheckpoint, type Checkpoint, type TrainingFingerprint } from './io/checkpoint.js';
 export { loadPositiveWindows, type LoadedPositives, type PositiveLoadOptions } from './data/positives.js';
 export { loadBackgroundImages, type LoadedBackgrounds } from './data/backgrounds.js';
 export { readImagesChecked, refuseBadImages, type CheckedImages, type ReadImagesOptions } from './data/read-images.js';
+
+// --- Visual report (issue 14): SVG charts, the offline HTML page, the cases to act on, PNG plots
+export { findCasesToReview, findPatchCases, type CaseLists, type CasesToReview, type PatchCasesToReview, type PatchCase, type FalseAlarm, type MissedObject } from './report/cases.js';
+export { windowDepthNearBox, type WindowDepth } from './report/window-depth.js';
+export { lineChart, barChart, type LineChartSpec, type BarChartSpec, type ChartSeries } from './report/svg-chart.js';
+export {
+  renderReportPage,
+  reportCharts,
+  REPORT_DATA_ID,
+  type ReportContent,
+  type CaseThumbnail,
+  type DetectionSection,
+  type PatchSection,
+} from './report/report-page.js';
+export { assembleReportContent, writeReportFiles, boxThumbnailPng, svgToPng, type ReportInputs } from './io/report-files.js';

@@ -3,7 +3,7 @@ import type { BoosterKind } from '../boost/booster.js';
 import { trainStage } from '../boost/train-stage.js';
 import type { BoostingPool } from '../parallel/boosting-pool.js';
 import { checkInteger, checkNumber, checkOpenInterval, checkThat } from '../check.js';
-import { RectboostError } from '../errors.js';
+import { RectboostError, isRectboostError } from '../errors.js';
 import { enumerateFeatures } from '../features/enumerate-features.js';
 import { packWindowSamples } from '../features/window-samples.js';
 import { mirrorGrayImage, type GrayImage } from '../image/gray-image.js';
@@ -42,8 +42,17 @@ export interface CascadeTrainingOptions {
   readonly onEvent?: (event: TrainingEvent) => void;
   /** Called after every stage with all stages so far (write a checkpoint here). */
   readonly onStageFinished?: (stages: readonly Stage[], report: StageReport) => Promise<void>;
-  /** Polled between units of work; when true, training stops with an `interrupted` error. */
+  /**
+   * Polled between units of work; when true, training stops after the last finished
+   * stage and returns with stop reason `interrupted` (the stage in progress is dropped).
+   */
   readonly shouldStop?: () => boolean;
+  /**
+   * Stop when a stage uses all `maxWeakClassifiers` without reaching
+   * `stageFalsePositiveRate` (stop reason `stage-stalled`; the stage is kept). Default true:
+   * later stages would cost as much and gain as little, since the same positives pin them.
+   */
+  readonly stopWhenStalled?: boolean;
 }
 
 /** What happened in one stage, for progress lines and the summary table. */
@@ -66,10 +75,19 @@ export type TrainingEvent =
   | { readonly phase: 'mining'; readonly stageIndex: number; readonly found: number; readonly wanted: number; readonly scanned: number }
   | { readonly phase: 'responses'; readonly stageIndex: number; readonly features: number; readonly samples: number }
   | { readonly phase: 'boosting'; readonly stageIndex: number; readonly weakClassifiers: number; readonly detectionRate: number; readonly falsePositiveRate: number }
-  | { readonly phase: 'stage-finished'; readonly report: StageReport };
+  | { readonly phase: 'stage-finished'; readonly report: StageReport }
+  /** Something the user should know before a long run (e.g. a validation set too small for the detection target). */
+  | { readonly phase: 'warning'; readonly message: string };
 
 /** Why training ended. */
-export type CascadeStopReason = 'target-reached' | 'max-stages' | 'backgrounds-exhausted' | 'positives-exhausted' | 'stage-not-improving';
+export type CascadeStopReason =
+  | 'target-reached'
+  | 'max-stages'
+  | 'backgrounds-exhausted'
+  | 'positives-exhausted'
+  | 'stage-not-improving'
+  | 'stage-stalled'
+  | 'interrupted';
 
 export interface CascadeTrainingResult {
   readonly stages: Stage[];
@@ -96,11 +114,15 @@ const MIN_NEGATIVE_SHARE = 0.5;
  * backgrounds cannot supply enough windows that the cascade accepts (success: the
  * data can show no more).
  *
+ * It also stops, keeping what it has, when a stage stalls (see `stopWhenStalled`) and
+ * when `shouldStop()` turns true (stop reason `interrupted`: the finished stages are
+ * returned, the stage in progress is dropped).
+ *
  * Deterministic: every random choice comes from seedrandom(`seed:…`) streams named
  * by their purpose and stage, so a resumed run gives the same stages as an
  * uninterrupted one.
  * @throws RectboostError `invalid-option` for out-of-range options, `bad-data`
- *   for too few positives, `interrupted` when shouldStop() turns true.
+ *   for too few positives.
  */
 export async function trainCascade(options: CascadeTrainingOptions): Promise<CascadeTrainingResult> {
   const { windowWidth, windowHeight } = options;
@@ -124,6 +146,9 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
   const stop = (): void => {
     if (options.shouldStop?.()) throw new RectboostError('interrupted', 'Training was interrupted.');
   };
+  const validationCount = validation.length === 0 ? training.length : validation.length;
+  const allKept = keepsEveryValidationPositive(validationCount, options.stageDetectionRate);
+  if (allKept !== undefined) options.onEvent?.({ phase: 'warning', message: allKept });
   const finish = (stopReason: CascadeStopReason, stopMessage: string): CascadeTrainingResult => ({
     stages,
     stopReason,
@@ -134,95 +159,145 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
     meanPositive: meanWindow([...training, ...validation], windowWidth * windowHeight),
   });
 
-  for (;;) {
-    const overall = reports.reduce((product, report) => product * resolvableRate(report.falsePositiveRate, report.negatives), 1);
-    if (stages.length > 0 && overall <= options.targetFalsePositiveRate) {
-      return finish('target-reached', `Reached the target false-positive rate: ${formatRate(overall)} ≤ ${formatRate(options.targetFalsePositiveRate)} after ${stages.length} stages.`);
+  try {
+    return await trainStages();
+  } catch (error) {
+    if (isRectboostError(error, 'interrupted') && options.shouldStop?.() === true) {
+      return finish('interrupted', `Interrupted after ${stages.length} finished stage${stages.length === 1 ? '' : 's'}.`);
     }
-    if (stages.length >= options.maxStages) {
-      return finish('max-stages', `Stopped at the stage limit of ${options.maxStages}; overall false-positive rate ${formatRate(overall)}.`);
-    }
-    stop();
-    const stageIndex = stages.length;
-    const started = performance.now();
-    const cascadeSoFar = { window: { width: windowWidth, height: windowHeight }, stages };
-    const trainingKept = keepAccepted(training, cascadeSoFar, windowWidth, windowHeight);
-    const validationKept = validation.length === 0 ? trainingKept : keepAccepted(validation, cascadeSoFar, windowWidth, windowHeight);
-    if (trainingKept.length < 2 || validationKept.length < 1) {
-      return finish('positives-exhausted', `Stopped: the cascade keeps too few positives (${trainingKept.length}) to train stage ${stageIndex + 1}.`);
-    }
-
-    const miningRandom = seedrandom(`${options.seed}:mining:${stageIndex}`);
-    const wanted = options.negativesPerStage;
-    const onMining = (found: number, scanned: number): void => options.onEvent?.({ phase: 'mining', stageIndex, found, wanted, scanned });
-    const mined = stageIndex === 0
-      ? sampleUniformNegatives(backgrounds, wanted, miningRandom)
-      : mineHardNegatives(backgrounds, cascadeSoFar, wanted, miningRandom, onMining, options.shouldStop);
-    stop();
-    onMining(mined.negatives.length, mined.windowsScanned);
-    if (mined.negatives.length < Math.max(1, Math.ceil(wanted * MIN_NEGATIVE_SHARE))) {
-      return finish(
-        'backgrounds-exhausted',
-        `Stopped: the backgrounds hold only ${mined.negatives.length} windows that the ${stageIndex}-stage cascade still accepts ` +
-          `(${mined.windowsScanned} scanned, ${wanted} wanted); the cascade has met what these backgrounds can show.`,
-      );
-    }
-
-    options.onEvent?.({ phase: 'responses', stageIndex, features: features.length, samples: trainingKept.length + mined.negatives.length });
-    const result = await trainStage({
-      features,
-      positives: packWindowSamples(trainingKept, windowWidth, windowHeight),
-      negatives: packWindowSamples(mined.negatives, windowWidth, windowHeight),
-      validationPositives: packWindowSamples(validationKept, windowWidth, windowHeight),
-      booster: options.booster,
-      minDetectionRate: options.stageDetectionRate,
-      maxFalsePositiveRate: options.stageFalsePositiveRate,
-      maxWeakClassifiers: options.maxWeakClassifiers,
-      memoryBytes: options.memoryBytes,
-      random: seedrandom(`${options.seed}:features:${stageIndex}`),
-      ...(options.pool === undefined ? {} : { pool: options.pool }),
-      onRound: (round) => {
-        stop();
-        options.onEvent?.({
-          phase: 'boosting',
-          stageIndex,
-          weakClassifiers: round.weakClassifiers,
-          detectionRate: round.detectionRate,
-          falsePositiveRate: round.falsePositiveRate,
-        });
-      },
-    });
-    if (result.falsePositiveRate >= 1) {
-      // A stage that lets every negative through would only slow detection down; more of the
-      // same data cannot fix it, so stop and say what would.
-      return finish(
-        'stage-not-improving',
-        `Stopped: stage ${stageIndex + 1} could not reject any negative while keeping ${options.stageDetectionRate} of the validation positives ` +
-          `(boosting ended with ${result.stoppedBecause}); add more varied positives, or lower --stage-detection.`,
-      );
-    }
-    const stage: Stage = {
-      threshold: result.stage.threshold,
-      weakClassifiers: result.stage.weakClassifiers,
-      training: {
-        detectionRate: result.detectionRate,
-        falsePositiveRate: result.falsePositiveRate,
-        positives: trainingKept.length,
-        negatives: mined.negatives.length,
-        windowsScanned: mined.windowsScanned,
-        featuresUsed: result.featuresUsed,
-        stoppedBecause: result.stoppedBecause,
-      },
-    };
-    stages.push(stage);
-    const report: StageReport = {
-      ...reportOfRecordedStage(stage, stageIndex, stages),
-      seconds: (performance.now() - started) / 1000,
-    };
-    reports.push(report);
-    await options.onStageFinished?.(stages, report);
-    options.onEvent?.({ phase: 'stage-finished', report });
+    throw error;
   }
+
+  async function trainStages(): Promise<CascadeTrainingResult> {
+    for (;;) {
+      const overall = reports.reduce((product, report) => product * resolvableRate(report.falsePositiveRate, report.negatives), 1);
+      if (stages.length > 0 && overall <= options.targetFalsePositiveRate) {
+        return finish('target-reached', `Reached the target false-positive rate: ${formatRate(overall)} ≤ ${formatRate(options.targetFalsePositiveRate)} after ${stages.length} stages.`);
+      }
+      if (stages.length >= options.maxStages) {
+        return finish('max-stages', `Stopped at the stage limit of ${options.maxStages}; overall false-positive rate ${formatRate(overall)}.`);
+      }
+      // Judged from the last stage's record, so that a run resumed right after it stops here too.
+      const last = stages.at(-1)?.training;
+      if (options.stopWhenStalled !== false && last?.stoppedBecause === 'max-weak-classifiers' && last.falsePositiveRate > options.stageFalsePositiveRate) {
+        return finish('stage-stalled', stalledStageMessage(stages.length - 1, last.falsePositiveRate, validationCount, options));
+      }
+      stop();
+      const stageIndex = stages.length;
+      const started = performance.now();
+      const cascadeSoFar = { window: { width: windowWidth, height: windowHeight }, stages };
+      const trainingKept = keepAccepted(training, cascadeSoFar, windowWidth, windowHeight);
+      const validationKept = validation.length === 0 ? trainingKept : keepAccepted(validation, cascadeSoFar, windowWidth, windowHeight);
+      if (trainingKept.length < 2 || validationKept.length < 1) {
+        return finish('positives-exhausted', `Stopped: the cascade keeps too few positives (${trainingKept.length}) to train stage ${stageIndex + 1}.`);
+      }
+
+      const miningRandom = seedrandom(`${options.seed}:mining:${stageIndex}`);
+      const wanted = options.negativesPerStage;
+      const onMining = (found: number, scanned: number): void => options.onEvent?.({ phase: 'mining', stageIndex, found, wanted, scanned });
+      const mined = stageIndex === 0
+        ? sampleUniformNegatives(backgrounds, wanted, miningRandom)
+        : mineHardNegatives(backgrounds, cascadeSoFar, wanted, miningRandom, onMining, options.shouldStop);
+      stop();
+      onMining(mined.negatives.length, mined.windowsScanned);
+      if (mined.negatives.length < Math.max(1, Math.ceil(wanted * MIN_NEGATIVE_SHARE))) {
+        return finish(
+          'backgrounds-exhausted',
+          `Stopped: the backgrounds hold only ${mined.negatives.length} windows that the ${stageIndex}-stage cascade still accepts ` +
+            `(${mined.windowsScanned} scanned, ${wanted} wanted); the cascade has met what these backgrounds can show.`,
+        );
+      }
+
+      options.onEvent?.({ phase: 'responses', stageIndex, features: features.length, samples: trainingKept.length + mined.negatives.length });
+      const result = await trainStage({
+        features,
+        positives: packWindowSamples(trainingKept, windowWidth, windowHeight),
+        negatives: packWindowSamples(mined.negatives, windowWidth, windowHeight),
+        validationPositives: packWindowSamples(validationKept, windowWidth, windowHeight),
+        booster: options.booster,
+        minDetectionRate: options.stageDetectionRate,
+        maxFalsePositiveRate: options.stageFalsePositiveRate,
+        maxWeakClassifiers: options.maxWeakClassifiers,
+        memoryBytes: options.memoryBytes,
+        random: seedrandom(`${options.seed}:features:${stageIndex}`),
+        ...(options.pool === undefined ? {} : { pool: options.pool }),
+        onRound: (round) => {
+          stop();
+          options.onEvent?.({
+            phase: 'boosting',
+            stageIndex,
+            weakClassifiers: round.weakClassifiers,
+            detectionRate: round.detectionRate,
+            falsePositiveRate: round.falsePositiveRate,
+          });
+        },
+      });
+      if (result.falsePositiveRate >= 1) {
+        // A stage that lets every negative through would only slow detection down; more of the
+        // same data cannot fix it, so stop and say what would.
+        return finish(
+          'stage-not-improving',
+          `Stopped: stage ${stageIndex + 1} could not reject any negative while keeping ${options.stageDetectionRate} of the validation positives ` +
+            `(boosting ended with ${result.stoppedBecause}); add more varied positives, or lower --stage-detection.`,
+        );
+      }
+      const stage: Stage = {
+        threshold: result.stage.threshold,
+        weakClassifiers: result.stage.weakClassifiers,
+        training: {
+          detectionRate: result.detectionRate,
+          falsePositiveRate: result.falsePositiveRate,
+          positives: trainingKept.length,
+          negatives: mined.negatives.length,
+          windowsScanned: mined.windowsScanned,
+          featuresUsed: result.featuresUsed,
+          stoppedBecause: result.stoppedBecause,
+        },
+      };
+      stages.push(stage);
+      const report: StageReport = {
+        ...reportOfRecordedStage(stage, stageIndex, stages),
+        seconds: (performance.now() - started) / 1000,
+      };
+      reports.push(report);
+      await options.onStageFinished?.(stages, report);
+      options.onEvent?.({ phase: 'stage-finished', report });
+    }
+  }
+}
+
+/**
+ * Why a stage that used every weak classifier it may have still lets too many negatives
+ * through, and what to do, in two sentences. The usual cause on small data: with n
+ * validation positives, a detection target d with ⌈d·n⌉ = n keeps every one of them, so
+ * the single hardest positive sets the threshold of every stage.
+ */
+function stalledStageMessage(stageIndex: number, falsePositiveRate: number, validationCount: number, options: CascadeTrainingOptions): string {
+  const head =
+    `Stopped: stage ${stageIndex + 1} used all ${options.maxWeakClassifiers} weak classifiers and still lets ${(100 * falsePositiveRate).toFixed(1)}% ` +
+    `of its negatives through (target ${(100 * options.stageFalsePositiveRate).toFixed(1)}%), so more stages would cost as much and gain as little.`;
+  const cause = keepsEveryValidationPositive(validationCount, options.stageDetectionRate) !== undefined
+    ? ` The likely cause: with ${validationCount} validation positives, a stage detection rate of ${options.stageDetectionRate} means keeping all ${validationCount}, so the hardest one sets every threshold.`
+    : ' The positives and the background windows that still pass look too alike for this many weak classifiers.';
+  return (
+    `${head}${cause} Remedies: more (and more varied) positives, a lower --stage-detection, a larger --validation share, or a higher --max-weak; ` +
+    '--keep-going trains on regardless. The stages so far are saved.'
+  );
+}
+
+/**
+ * A warning when a detection target leaves no room for misses on `validationCount`
+ * positives (⌈d·n⌉ = n, the rule of thresholdForDetectionRate), or undefined when it does.
+ * d = 1 asks for every positive on purpose, so it is not warned about.
+ */
+function keepsEveryValidationPositive(validationCount: number, stageDetectionRate: number): string | undefined {
+  if (stageDetectionRate >= 1 || Math.ceil(stageDetectionRate * validationCount - 1e-9) < validationCount) return undefined;
+  const needed = Math.ceil(1 / (1 - stageDetectionRate) - 1e-9);
+  return (
+    `Only ${validationCount} validation positives: a stage detection rate of ${stageDetectionRate} means keeping every one of them, ` +
+    `so one unusual positive sets every stage threshold. Use at least ${needed} validation positives (more positives or a larger --validation share), ` +
+    'or a lower --stage-detection.'
+  );
 }
 
 function reportOfRecordedStage(stage: Stage, stageIndex: number, stages: readonly Stage[]): StageReport {

@@ -5,8 +5,10 @@ import { registerTrainCommand } from './commands/train.js';
 import { registerDetectCommand } from './commands/detect.js';
 import { registerEvaluateCommand } from './commands/evaluate.js';
 import { registerExportCommand } from './commands/export.js';
+import { registerJoinCommand } from './commands/join.js';
 import { registerInspectCommand } from './commands/inspect.js';
 import { registerTuneCommand } from './commands/tune.js';
+import { registerReportCommand } from './commands/report.js';
 import { EXIT_USAGE, exitCodeFor, formatError } from './messages.js';
 
 /** Builds the commander program with every command of DESIGN §2 (plus `check`). */
@@ -21,10 +23,12 @@ export function buildProgram(): Command {
   registerCheckCommand(program);
   registerTrainCommand(program);
   registerDetectCommand(program);
+  registerJoinCommand(program);
   registerEvaluateCommand(program);
   registerTuneCommand(program);
   registerExportCommand(program);
   registerInspectCommand(program);
+  registerReportCommand(program);
   registerDemoCommand(program);
   return program;
 }

@@ -23,6 +23,8 @@ export interface LoadedPositives {
   readonly windows: GrayImage[];
   /** Number of source patches (before mirroring). */
   readonly sourceCount: number;
+  /** Where each source patch came from (sourceCount entries): its file, and for annotated images the box too. */
+  readonly sources: string[];
   readonly contentHash: string;
   /** Lines describing skipped bad files (with skipBad). */
   readonly skipped: string[];
@@ -45,6 +47,7 @@ async function loadAnnotatedPositives(path: string, options: PositiveLoadOptions
   const skipped = refuseBadImages('annotated images', checked, options.skipBad);
   const byFile = new Map(checked.files.map((file, i) => [file, checked.images[i]!]));
   const windows: GrayImage[] = [];
+  const sources: string[] = [];
   for (const entry of annotated) {
     const image = byFile.get(entry.image);
     if (image === undefined) continue;
@@ -55,12 +58,13 @@ async function loadAnnotatedPositives(path: string, options: PositiveLoadOptions
       const bottom = Math.min(image.height, Math.round(y + height));
       if (right - left < 1 || bottom - top < 1) continue;
       windows.push(resizeGrayImage(cropGrayImage(image, left, top, right - left, bottom - top), options.windowWidth, options.windowHeight));
+      sources.push(`${entry.image} [${x}, ${y}, ${width}, ${height}]`);
     }
   }
   if (windows.length === 0) throw new RectboostError('bad-data', `Annotation file ${path} has no boxes inside its images.`);
   const hash = createHash('sha256').update(await readFile(path)).update(checked.contentHash).digest('hex');
   const all = options.mirror ? [...windows, ...windows.map(mirrorGrayImage)] : windows;
-  return { windows: all, sourceCount: windows.length, contentHash: hash, skipped };
+  return { windows: all, sourceCount: windows.length, sources, contentHash: hash, skipped };
 }
 
 /**
@@ -90,5 +94,5 @@ export async function loadPositiveWindows(path: string, options: PositiveLoadOpt
   const skipped = refuseBadImages('positive images', checked, options.skipBad);
   const windows = checked.images.map((image) => resizeGrayImage(image, options.windowWidth, options.windowHeight));
   const all = options.mirror ? [...windows, ...windows.map(mirrorGrayImage)] : windows;
-  return { windows: all, sourceCount: windows.length, contentHash: checked.contentHash, skipped };
+  return { windows: all, sourceCount: windows.length, sources: checked.files, contentHash: checked.contentHash, skipped };
 }

@@ -1,4 +1,4 @@
-import type { WeakClassifier } from '../cascade/cascade-model.js';
+import type { CascadeModel, WeakClassifier } from '../cascade/cascade-model.js';
 import { featureCells } from '../features/haar-feature.js';
 import type { RgbImage } from './encode-image.js';
 
@@ -52,4 +52,20 @@ export function drawFeatureSheet(
     });
   });
   return { width, height, data };
+}
+
+/**
+ * The feature sheet of a model: the first `featuresPerStage` weak classifiers of
+ * its first `stageCount` stages over the mean positive (mid gray when the model
+ * has none). Defaults: 3 stages, 5 features, zoom 8.
+ */
+export function drawModelFeatureSheet(
+  model: Pick<CascadeModel, 'stages' | 'window' | 'meanPositive'>,
+  stageCount = 3,
+  featuresPerStage = 5,
+  zoom = 8,
+): RgbImage {
+  const rows = model.stages.slice(0, stageCount).map((stage) => stage.weakClassifiers.slice(0, featuresPerStage));
+  const backdrop = model.meanPositive ?? new Array<number>(model.window.width * model.window.height).fill(128);
+  return drawFeatureSheet(rows, model.window.width, model.window.height, backdrop, zoom);
 }

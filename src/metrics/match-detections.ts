@@ -10,6 +10,8 @@ export interface ImageDetectionsAndTruth {
 /** One detection after matching: its score and whether it matched a truth box. */
 export interface MatchedDetection {
   readonly image: number;
+  /** Index of the detection in its image's list. */
+  readonly detection: number;
   readonly score: number;
   readonly truePositive: boolean;
 }
@@ -17,6 +19,8 @@ export interface MatchedDetection {
 /** All detections of a data set, sorted by score (highest first), with the truth count. */
 export interface MatchResult {
   readonly detections: readonly MatchedDetection[];
+  /** missedTruth[i]: indices of image i's truth boxes that no detection matched. */
+  readonly missedTruth: ReadonlyArray<readonly number[]>;
   readonly truthCount: number;
   readonly imageCount: number;
 }
@@ -51,7 +55,8 @@ export function matchDetections(images: readonly ImageDetectionsAndTruth[], iouT
     });
     const truePositive = best >= 0 && bestOverlap >= iouThreshold && taken[image]![best] === 0;
     if (truePositive) taken[image]![best] = 1;
-    return { image, score, truePositive };
+    return { image, detection: index, score, truePositive };
   });
-  return { detections, truthCount: images.reduce((n, entry) => n + entry.truth.length, 0), imageCount: images.length };
+  const missedTruth = taken.map((flags) => Array.from(flags.keys()).filter((t) => flags[t] === 0));
+  return { detections, missedTruth, truthCount: images.reduce((n, entry) => n + entry.truth.length, 0), imageCount: images.length };
 }

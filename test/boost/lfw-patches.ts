@@ -1,5 +1,5 @@
 import { readFileSync } from 'node:fs';
-import { REFERENCE_DATA, shouldRunWith } from '../data/reference-files.js';
+import { REFERENCE_DATA } from '../data/reference-files.js';
 import { lfwSubsetFromArray } from '../../src/data/lfw-subset.js';
 import { readNpy } from '../../src/data/npy-reader.js';
 import type { GrayImage } from '../../src/image/gray-image.js';
@@ -10,11 +10,6 @@ import type { GrayImage } from '../../src/image/gray-image.js';
  * faces from Labeled Faces in the Wild, the last 100 non-faces (skimage.data.lfw_subset docs).
  */
 export const LFW_PATH = REFERENCE_DATA + 'lfw_subset.npy';
-
-/** Whether the lfw tests run: the shared rule of shouldRunWith (under CI a missing file fails, never skips). */
-export function lfwAvailable(): boolean {
-  return shouldRunWith('lfw_subset.npy');
-}
 
 /** The patches as 8-bit images (loadLfwSubset's conversion), split: even indices train, odd test. */
 export function loadLfwPatches(): { trainFaces: GrayImage[]; testFaces: GrayImage[]; trainOthers: GrayImage[]; testOthers: GrayImage[] } {

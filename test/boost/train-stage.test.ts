@@ -9,7 +9,8 @@ import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.j
 import { packWindowSamples } from '../../src/features/window-samples.js';
 import { computeIntegralImage } from '../../src/image/integral-image.js';
 import { randomGrayImage } from '../helpers/random-image.js';
-import { lfwAvailable, loadLfwPatches } from './lfw-patches.js';
+import { describeWithReferenceData } from '../data/reference-files.js';
+import { loadLfwPatches } from './lfw-patches.js';
 
 const rate = (scores: Float64Array, threshold: number): number => scores.filter((score) => score >= threshold).length / scores.length;
 
@@ -43,7 +44,7 @@ describe('stage threshold', () => {
   });
 });
 
-describe.skipIf(!lfwAvailable())('a stage trained on real faces vs non-faces (lfw_subset.npy, scikit-image)', () => {
+describeWithReferenceData('a stage trained on real faces vs non-faces (lfw_subset.npy, scikit-image)', ['lfw_subset.npy'], () => {
   const { trainFaces, testFaces, trainOthers, testOthers } = loadLfwPatches();
   const positives = packWindowSamples(trainFaces, 25, 25);
   const negatives = packWindowSamples(trainOthers, 25, 25);

@@ -76,7 +76,16 @@ describe('cascade training (in process, generated data)', () => {
     expect(JSON.stringify(resumed.stages)).toBe(JSON.stringify(result.stages));
   });
 
-  it('stops with a clear reason when the interrupt flag is raised', async () => {
-    await expect(trainCascade({ ...options, shouldStop: () => true })).rejects.toThrow(/interrupted/);
+  it('returns the finished stages with stop reason interrupted when the interrupt flag is raised', async () => {
+    // Raised before the first stage: nothing finished, and nothing is made up.
+    const before = await trainCascade({ ...options, shouldStop: () => true });
+    expect(before.stopReason).toBe('interrupted');
+    expect(before.stages).toEqual([]);
+    // Raised once stage 1 is done: stage 1 is returned as trained, the stage in progress dropped.
+    let finished = 0;
+    const after = await trainCascade({ ...options, onStageFinished: async () => void finished++, shouldStop: () => finished >= 1 });
+    const whole = await trainCascade({ ...options, maxStages: 1 });
+    expect(after.stopReason).toBe('interrupted');
+    expect(after.stages).toEqual(whole.stages);
   });
 });

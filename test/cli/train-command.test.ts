@@ -54,7 +54,7 @@ describe('rectboost train', () => {
     expect(readFileSync(c, 'utf8')).toBe(readFileSync(a, 'utf8'));
   });
 
-  it('resumes after Ctrl-C to the same model as an uninterrupted run', async () => {
+  it('on Ctrl-C writes the finished stages as a model, and resumes to the same model as an uninterrupted run', async () => {
     const whole = join(root, 'whole.json');
     expect(train(whole, ['--workers', '1']).status).toBe(0);
     const out = join(root, 'resumed.json');
@@ -72,8 +72,11 @@ describe('rectboost train', () => {
     const status = await new Promise<number | null>((resolve) => child.on('close', resolve));
     expect(signalled).toBe(true);
     expect(status).toBe(1);
-    expect(stderr).toMatch(/Training interrupted; finished stages are saved in .*resumed\.checkpoint\. Run the same command with --resume to continue\./);
-    expect(existsSync(out)).toBe(false);
+    expect(stderr).toMatch(/Training interrupted after [12] finished stages?: .*resumed\.json holds them as a usable model \(stop reason "interrupted"\), and .*resumed\.checkpoint keeps them for --resume\. Run the same command with --resume to continue\./);
+    // The interrupted run leaves a valid model of its finished stages beside the checkpoint.
+    const interrupted = parseCascadeModel(readFileSync(out, 'utf8'), out);
+    expect(interrupted.training!.stopReason).toBe('interrupted');
+    expect(interrupted.stages.length).toBeGreaterThanOrEqual(1);
     savedCheckpoint = readFileSync(join(root, 'resumed.checkpoint', 'progress.json'), 'utf8');
     const resumed = runCli([...args, '--resume']);
     expect(resumed.status).toBe(0);

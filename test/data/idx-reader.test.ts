@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { isRectboostError } from '../../src/errors.js';
 import { loadFashionMnist } from '../../src/data/fashion-mnist.js';
 import { readIdx, readIdxFile } from '../../src/data/idx-reader.js';
-import { REFERENCE_DATA, shouldRunWith } from './reference-files.js';
+import { REFERENCE_DATA, describeWithReferenceData } from './reference-files.js';
 import { errorOf } from '../helpers/error-of.js';
 
 // Values made by scripts/make-dataset-fixture.py with gzip + numpy.frombuffer (numpy version recorded).
@@ -77,7 +77,7 @@ describe('readIdx on hand-made files', () => {
 
 for (const expected of fixture.fashionMnist) {
   const file = `fashion-mnist/${expected.split === 'train' ? 'train' : 't10k'}-images-idx3-ubyte.gz`;
-  describe.skipIf(!shouldRunWith(file))(`Fashion-MNIST ${expected.split} split against numpy ${fixture.numpyVersion}`, () => {
+  describeWithReferenceData(`Fashion-MNIST ${expected.split} split against numpy ${fixture.numpyVersion}`, [file], () => {
     it(`holds ${expected.shape[0]} images of 28×28 and matching labels`, async () => {
       const { images, labels } = await loadFashionMnist(`${REFERENCE_DATA}fashion-mnist`, expected.split);
       // Published sizes (Xiao, Rasul & Vollgraf 2017, §2): 60,000 training and 10,000 test items of 28×28.

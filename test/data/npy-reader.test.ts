@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { isRectboostError } from '../../src/errors.js';
 import { loadLfwSubset } from '../../src/data/lfw-subset.js';
 import { readNpy, readNpyFile } from '../../src/data/npy-reader.js';
-import { REFERENCE_DATA, shouldRunWith } from './reference-files.js';
+import { REFERENCE_DATA, describeWithReferenceData } from './reference-files.js';
 import { errorOf } from '../helpers/error-of.js';
 
 // Values made by scripts/make-dataset-fixture.py with numpy.load (version recorded in the file).
@@ -120,7 +120,7 @@ describe('readNpy on hand-made files', () => {
   });
 });
 
-describe.skipIf(!shouldRunWith('lfw_subset.npy'))(`lfw_subset.npy against numpy ${fixture.numpyVersion}`, () => {
+describeWithReferenceData(`lfw_subset.npy against numpy ${fixture.numpyVersion}`, ['lfw_subset.npy'], () => {
   const path = `${REFERENCE_DATA}lfw_subset.npy`;
 
   it('has the shape and element type numpy reports (200 × 25 × 25 float64)', async () => {

@@ -8,7 +8,8 @@ import { runCli } from '../helpers/run-cli.js';
 describe('rectboost demo at reduced size', () => {
   it('trains at least two stages, writes every output, and finds most rivets on panel p01', () => {
     const out = mkdtempSync(join(tmpdir(), 'rectboost-demo-'));
-    const result = runCli(['demo', '--out', out, '--max-stages', '3', '--positives', '300', '--quiet'], { timeoutMs: 300_000 });
+    // Not --quiet, so the file list is printed (progress lines stay off: stderr is not a terminal here).
+    const result = runCli(['demo', '--out', out, '--max-stages', '3', '--positives', '300'], { timeoutMs: 300_000 });
     expect(result.stderr).toBe('');
     expect(result.status).toBe(0);
     const model = parseCascadeModel(readFileSync(join(out, 'rivets.json'), 'utf8'), 'rivets.json');
@@ -21,5 +22,12 @@ describe('rectboost demo at reduced size', () => {
     expect(panel.rivets).toBe(12);
     expect(panel.found).toBeGreaterThanOrEqual(9);
     expect(existsSync(join(out, 'report.json'))).toBe(true);
+    // The visual report and its PNG plots: three model charts (the model has training records) and three detection charts.
+    const page = readFileSync(join(out, 'report.html'), 'utf8');
+    expect(page).toContain('Cases to act on');
+    expect(readdirSync(join(out, 'plots')).sort()).toEqual([
+      'false-positive-rates.png', 'mining-effort.png', 'miss-rate.png', 'precision-recall.png', 'rejected-by-stage.png', 'weak-classifiers.png',
+    ]);
+    expect(result.stdout).toContain(`${join(out, 'report.html')}  (the visual report`);
   });
 });

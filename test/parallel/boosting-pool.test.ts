@@ -4,9 +4,10 @@ import { trainStage, type StageTrainingOptions } from '../../src/boost/train-sta
 import { enumerateFeatures } from '../../src/features/enumerate-features.js';
 import { packWindowSamples } from '../../src/features/window-samples.js';
 import { createBoostingPool, type BoostingPool } from '../../src/parallel/boosting-pool.js';
-import { lfwAvailable, loadLfwPatches } from '../boost/lfw-patches.js';
+import { describeWithReferenceData } from '../data/reference-files.js';
+import { loadLfwPatches } from '../boost/lfw-patches.js';
 
-describe.skipIf(!lfwAvailable())('boosting pool', () => {
+describeWithReferenceData('boosting pool', ['lfw_subset.npy'], () => {
   let one: BoostingPool;
   let two: BoostingPool;
   beforeAll(async () => {

@@ -18,7 +18,7 @@ import type { Box } from '../../src/metrics/intersection-over-union.js';
 import { evaluatePatches, type PatchEvaluation } from '../../src/metrics/patch-evaluation.js';
 import type { RocCurve } from '../../src/metrics/roc-curve.js';
 import { createBoostingPool, type BoostingPool } from '../../src/parallel/boosting-pool.js';
-import { REFERENCE_DATA, shouldRunWith } from '../data/reference-files.js';
+import { REFERENCE_DATA, describeWithReferenceData } from '../data/reference-files.js';
 import { expectStagePassRatesMatchStagesPassed } from './stage-pass-check.js';
 
 /**
@@ -73,7 +73,7 @@ function detectionRateAtFalsePositiveRate(roc: RocCurve, rate: number): number {
 
 const needed = ['train-images-idx3-ubyte.gz', 'train-labels-idx1-ubyte.gz', 't10k-images-idx3-ubyte.gz', 't10k-labels-idx1-ubyte.gz'];
 
-describe.skipIf(!needed.every((name) => shouldRunWith(`fashion-mnist/${name}`)))('Fashion-MNIST trouser against the rest', () => {
+describeWithReferenceData('Fashion-MNIST trouser against the rest', needed.map((name) => `fashion-mnist/${name}`), () => {
   let pool: BoostingPool | undefined;
   let test: FashionMnistSplit;
   let result: CascadeTrainingResult;

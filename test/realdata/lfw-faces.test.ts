@@ -15,7 +15,7 @@ import type { GrayImage } from '../../src/image/gray-image.js';
 import { decodeGrayImageFile } from '../../src/io/decode-image.js';
 import { evaluatePatches, type PatchEvaluation } from '../../src/metrics/patch-evaluation.js';
 import { createBoostingPool, type BoostingPool } from '../../src/parallel/boosting-pool.js';
-import { REFERENCE_DATA, shouldRunWith } from '../data/reference-files.js';
+import { REFERENCE_DATA, describeWithReferenceData } from '../data/reference-files.js';
 import { expectStagePassRatesMatchStagesPassed } from './stage-pass-check.js';
 
 /**
@@ -38,7 +38,7 @@ const SIDE = 25;
 
 const needed = ['lfw_subset.npy', ...BACKGROUND_PHOTOS.map((name) => `photos/${name}`)];
 
-describe.skipIf(!needed.every(shouldRunWith))('faces vs non-faces: lfw_subset.npy with scikit-image sample photos as backgrounds', () => {
+describeWithReferenceData('faces vs non-faces: lfw_subset.npy with scikit-image sample photos as backgrounds', needed, () => {
   let pool: BoostingPool | undefined;
   let trainingFaces: GrayImage[];
   let heldOutFaces: GrayImage[];

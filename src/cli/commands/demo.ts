@@ -1,20 +1,18 @@
 import { availableParallelism } from 'node:os';
-import { basename, join, resolve } from 'node:path';
+import { basename, join, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Command } from 'commander';
-import { formatRate, trainCascade } from '../../cascade/build-cascade.js';
-import { newCascadeModel, type CascadeModel } from '../../cascade/cascade-model.js';
+import { formatRate } from '../../cascade/build-cascade.js';
 import { loadAnnotations } from '../../data/annotations.js';
-import { loadBackgroundImages } from '../../data/backgrounds.js';
-import { loadPositiveWindows } from '../../data/positives.js';
 import { detectorCascadeFromModel } from '../../detect/detector-cascade.js';
 import { writeFileAtomic } from '../../io/atomic-write.js';
 import { DETECTION_COLOUR, TRUTH_COLOUR, drawBoxes } from '../../io/draw-boxes.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
-import { saveCascadeModel } from '../../io/model-file.js';
-import { evaluateDetections } from '../../metrics/detection-evaluation.js';
+import { trainModel } from '../../io/train-model.js';
+import { evaluateDetections, summarizeScans } from '../../metrics/detection-evaluation.js';
+import type { ScanStatistics } from '../../detect/scan-image.js';
+import { assembleReportContent, writeReportFiles } from '../../io/report-files.js';
 import type { Box } from '../../metrics/intersection-over-union.js';
-import { createBoostingPool } from '../../parallel/boosting-pool.js';
 import { detectFiles } from '../../parallel/detect-files.js';
 import { parseInteger } from '../parse-options.js';
 import { ProgressLine, formatDuration } from '../progress.js';
@@ -83,63 +81,41 @@ async function runDemo(flags: DemoFlags): Promise<void> {
   const { windowWidth, windowHeight } = DEMO_SETTINGS;
 
   say(`rectboost demo: rivet heads on sheet-metal panels (data in ${DEMO_DATA})`);
-  const positives = await loadPositiveWindows(join(DEMO_DATA, 'positives'), {
-    windowWidth, windowHeight, mirror: false, skipBad: false,
-    onProgress: (done, total) => progress.update('positives', 'reading positives', done, total),
-  });
-  const backgrounds = await loadBackgroundImages(join(DEMO_DATA, 'backgrounds'), {
-    windowWidth, windowHeight, skipBad: false,
-    onProgress: (done, total) => progress.update('backgrounds', 'reading backgrounds', done, total),
-  });
-  const windows = positives.windows.slice(0, positiveLimit);
-  say(`1. train: ${windows.length} rivet patches, ${backgrounds.images.length} bare panels, window ${windowWidth}×${windowHeight}, up to ${maxStages} stages`);
-
-  const pool = await createBoostingPool(workers);
-  let model: CascadeModel;
-  try {
-    const result = await trainCascade({
-      ...DEMO_SETTINGS,
-      maxStages,
-      positives: windows,
-      backgrounds: backgrounds.images,
-      mirror: false,
-      memoryBytes: 2 * 1024 ** 3,
-      pool,
-      onEvent: (event) => {
-        if (event.phase === 'mining') {
-          progress.update(`mining-${event.stageIndex}`, `   stage ${event.stageIndex + 1}: mining negatives`, event.found, event.wanted);
-        } else if (event.phase === 'responses') {
-          progress.update(`responses-${event.stageIndex}`, `   stage ${event.stageIndex + 1}: computing feature responses on ${event.samples} windows`, undefined, undefined, true);
-        } else if (event.phase === 'boosting') {
-          progress.update(`boosting-${event.stageIndex}`, `   stage ${event.stageIndex + 1}: ${event.weakClassifiers} weak classifiers, false positives ${event.falsePositiveRate.toFixed(3)}`);
-        } else {
-          const r = event.report;
-          say(`   stage ${r.stageIndex + 1}: ${r.weakClassifiers} weak classifiers, keeps ${(100 * r.detectionRate).toFixed(1)}% of rivets, overall false positives ${formatRate(r.overallFalsePositiveRate)} (${formatDuration(r.seconds)})`);
-        }
-      },
-    });
-    say(`   ${result.stopMessage}`);
-    model = newCascadeModel({ width: windowWidth, height: windowHeight }, result.stages, {
-      meanPositive: result.meanPositive,
-      training: {
-        tool: 'rectboost demo',
-        seed: DEMO_SETTINGS.seed,
-        options: { ...DEMO_SETTINGS, maxStages },
-        data: {
-          positives: windows.length,
-          validationPositives: result.validationPositives,
-          backgroundImages: backgrounds.images.length,
-          positivesHash: positives.contentHash,
-          backgroundsHash: backgrounds.contentHash,
-        },
-        stopReason: result.stopMessage,
-      },
-    });
-  } finally {
-    await pool.close();
-  }
   const modelPath = join(out, 'rivets.json');
-  await saveCascadeModel(modelPath, model);
+  let announced = false;
+  const { model, result } = await trainModel({
+    ...DEMO_SETTINGS,
+    maxStages,
+    positives: join(DEMO_DATA, 'positives'),
+    backgrounds: join(DEMO_DATA, 'backgrounds'),
+    out: modelPath,
+    mirror: false,
+    memoryBytes: 2 * 1024 ** 3,
+    workers,
+    recordTiming: false,
+    tool: 'rectboost demo',
+    ...(positiveLimit === Infinity ? {} : { positiveLimit }),
+    onEvent: (event) => {
+      if (event.phase === 'reading') {
+        progress.update(event.what, `reading ${event.what}`, event.done, event.total);
+      } else if (event.phase === 'data' && !announced) {
+        announced = true;
+        say(`1. train: ${event.positives} rivet patches, ${event.backgroundImages} bare panels, window ${windowWidth}×${windowHeight}, up to ${maxStages} stages`);
+      } else if (event.phase === 'mining') {
+        progress.update(`mining-${event.stageIndex}`, `   stage ${event.stageIndex + 1}: mining negatives`, event.found, event.wanted);
+      } else if (event.phase === 'responses') {
+        progress.update(`responses-${event.stageIndex}`, `   stage ${event.stageIndex + 1}: computing feature responses on ${event.samples} windows`, undefined, undefined, true);
+      } else if (event.phase === 'boosting') {
+        progress.update(`boosting-${event.stageIndex}`, `   stage ${event.stageIndex + 1}: ${event.weakClassifiers} weak classifiers, false positives ${event.falsePositiveRate.toFixed(3)}`);
+      } else if (event.phase === 'warning') {
+        say(`   warning: ${event.message}`);
+      } else if (event.phase === 'stage-finished') {
+        const r = event.report;
+        say(`   stage ${r.stageIndex + 1}: ${r.weakClassifiers} weak classifiers, keeps ${(100 * r.detectionRate).toFixed(1)}% of rivets, overall false positives ${formatRate(r.overallFalsePositiveRate)} (${formatDuration(r.seconds)})`);
+      }
+    },
+  });
+  say(`   ${result.stopMessage}`);
 
   const truthPath = join(DEMO_DATA, 'scenes', 'truth.jsonl');
   const truth = await loadAnnotations(truthPath);
@@ -148,12 +124,16 @@ async function runDemo(flags: DemoFlags): Promise<void> {
   const lines: string[] = [];
   const entries: Array<{ detections: Array<{ box: Box; score: number }>; truth: readonly Box[] }> = [];
   const perScene: Array<[string, number, number, number]> = [];
+  const statistics: ScanStatistics[] = [];
+  let scanMilliseconds = 0;
   let index = 0;
   for await (const outcome of detectFiles(detector, truth.map((t) => t.image), { workers, merge: { method: 'mean', overlap: 0.5, minSupport: 3 } })) {
     if (outcome.kind === 'failed') throw outcome.error;
     const sceneTruth = truth[index]!.boxes;
     index++;
     lines.push(detectionLine(outcome.result));
+    statistics.push(outcome.result.statistics);
+    scanMilliseconds += outcome.result.milliseconds;
     entries.push({ detections: outcome.result.detections.map((d) => ({ box: d.box, score: d.score })), truth: sceneTruth });
     const found = evaluateDetections([{ detections: outcome.result.detections.map((d) => ({ box: d.box, score: d.score })), truth: sceneTruth }]);
     perScene.push([basename(outcome.result.image), sceneTruth.length, found.truePositives, outcome.result.detections.length - found.truePositives]);
@@ -177,6 +157,13 @@ async function runDemo(flags: DemoFlags): Promise<void> {
     scenes: perScene.map(([image, rivets, found, falseAlarms]) => ({ image, rivets, found, falseAlarms })),
   };
   await writeFileAtomic(join(out, 'report.json'), `${JSON.stringify(report, null, 2)}\n`);
+  const page = await assembleReportContent({
+    // Paths as the user would type them: the model relative to the working folder, the truth inside the package.
+    title: 'rectboost demo: rivet heads on sheet-metal panels', modelPath: relative(process.cwd(), modelPath) || modelPath,
+    detector: detectorCascadeFromModel(model), model, writtenBy: `rectboost demo, ${new Date().toISOString()}`,
+    detection: { truthPath: relative(join(DEMO_DATA, '..'), truthPath), imagePaths: truth.map((t) => t.image), entries, evaluation, speed: summarizeScans(statistics, scanMilliseconds), scan: {} },
+  });
+  await writeReportFiles(page, join(out, 'report.html'), join(out, 'plots'));
   progress.clear();
   if (flags.quiet !== true) {
     process.stdout.write(`3. evaluate (IoU ≥ 0.5):\n`);
@@ -190,5 +177,7 @@ async function runDemo(flags: DemoFlags): Promise<void> {
     process.stdout.write(`   ${join(out, 'detections.jsonl')}  (one JSON line per panel)\n`);
     process.stdout.write(`   ${join(out, 'scenes')}/  (panels with boxes drawn)\n`);
     process.stdout.write(`   ${join(out, 'report.json')}  (the figures above)\n`);
+    process.stdout.write(`   ${join(out, 'report.html')}  (the visual report: open it in a browser, works offline)\n`);
+    process.stdout.write(`   ${join(out, 'plots')}/  (its charts as PNG files)\n`);
   }
 }

@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { writeFileAtomic } from '../../io/atomic-write.js';
-import { drawFeatureSheet } from '../../io/draw-features.js';
+import { drawModelFeatureSheet } from '../../io/draw-features.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
 import { loadFullModel } from '../../io/model-file.js';
 import { parseInteger } from '../parse-options.js';
@@ -41,9 +41,7 @@ export function registerInspectCommand(program: Command): void {
       out.push(`total weak classifiers: ${total}`);
       process.stdout.write(`${out.join('\n')}\n`);
       if (options.draw !== undefined) {
-        const rows = model.stages.slice(0, stagesToDraw).map((stage) => stage.weakClassifiers.slice(0, featuresToDraw));
-        const backdrop = model.meanPositive ?? new Array<number>(model.window.width * model.window.height).fill(128);
-        const sheet = drawFeatureSheet(rows, model.window.width, model.window.height, backdrop, zoom);
+        const sheet = drawModelFeatureSheet(model, stagesToDraw, featuresToDraw, zoom);
         await writeFileAtomic(options.draw, await encodeRgbPng(sheet));
         process.stderr.write(`Wrote ${options.draw} (${sheet.width}×${sheet.height}, backdrop: ${model.meanPositive ? 'mean positive' : 'gray window'}).\n`);
       }

@@ -1,21 +1,17 @@
-import { availableParallelism } from 'node:os';
 import { resolve } from 'node:path';
 import type { Command } from 'commander';
 import type { BoosterKind } from '../../boost/booster.js';
-import { heldOutCount, trainCascade, formatRate, type StageReport, type TrainingEvent } from '../../cascade/build-cascade.js';
-import { newCascadeModel, type CascadeModel, type Stage } from '../../cascade/cascade-model.js';
-import { loadBackgroundImages } from '../../data/backgrounds.js';
-import { loadPositiveWindows } from '../../data/positives.js';
-import { RectboostError, isRectboostError } from '../../errors.js';
+import { formatRate, type StageReport } from '../../cascade/build-cascade.js';
+import { RectboostError } from '../../errors.js';
+import { detectorCascadeFromModel } from '../../detect/detector-cascade.js';
 import { MAX_WINDOW_SIDE } from '../../features/enumerate-features.js';
-import { readCheckpoint, removeCheckpoint, writeCheckpoint, type TrainingFingerprint } from '../../io/checkpoint.js';
-import { saveCascadeModel } from '../../io/model-file.js';
-import { createBoostingPool, type BoostingPool } from '../../parallel/boosting-pool.js';
+import { TOOL_NAME, trainModel, type TrainedModel, type TrainModelEvent, type TrainModelOptions } from '../../io/train-model.js';
 import { parseChoice, parseInteger, parseNumber, parseWindowSize } from '../parse-options.js';
 import { ProgressLine, formatCount, formatDuration } from '../progress.js';
 import { renderTable } from '../text-table.js';
+import { addReportOptions, writeReportFromInputs, type ReportFlags } from './report.js';
 
-interface TrainFlags {
+interface TrainFlags extends ReportFlags {
   positives?: string;
   backgrounds?: string;
   out?: string;
@@ -38,13 +34,12 @@ interface TrainFlags {
   skipBad?: boolean;
   quiet?: boolean;
   timing: boolean;
+  keepGoing?: boolean;
 }
-
-const TOOL = 'rectboost 0.1.0';
 
 /** `rectboost train`: folders in, model JSON out, with checkpoints after every stage. */
 export function registerTrainCommand(program: Command): void {
-  program
+  addReportOptions(program
     .command('train')
     .description('train a cascade from a folder of positive patches and a folder of background images')
     .option('--positives <path>', 'folder of positive patch images (any size; resized to the window), or an annotation file of boxes on full images')
@@ -66,16 +61,17 @@ export function registerTrainCommand(program: Command): void {
     .option('--memory <GB>', 'cap for the precomputed feature responses', '4')
     .option('--checkpoint <folder>', 'where finished stages are saved (default: OUT.checkpoint)')
     .option('--resume', 'continue from the checkpoint of an interrupted run with the same options and data')
+    .option('--keep-going', 'train on after a stage uses --max-weak weak classifiers without reaching --stage-false-positive (default: stop there and save)')
     .option('--skip-bad', 'train without unreadable images instead of stopping')
     .option('--no-timing', 'leave wall-clock times out of the model, for byte-for-byte reproducible files')
-    .option('--quiet', 'no progress or stage lines on stderr')
+    .option('--quiet', 'no progress or stage lines on stderr'), '--report')
     .addHelpText(
       'after',
       `
 Examples:
   rectboost train --positives demo-patches/positives --backgrounds demo-patches/backgrounds --out rivets.json
   rectboost train --positives faces/ --backgrounds street/ --out faces.json --window 20x20 --mirror --max-stages 12
-  rectboost train ... --resume            continue after Ctrl-C; finished stages are kept
+  rectboost train ... --resume            continue after Ctrl-C; OUT already holds the finished stages
 
 Each stage keeps --stage-detection of the positives and passes at most --stage-false-positive of the
 negatives, so K stages give roughly d^K detection and f^K false positives overall (Viola & Jones 2001).`,
@@ -90,163 +86,98 @@ async function runTrain(flags: TrainFlags): Promise<void> {
     if (value === undefined) throw new RectboostError('invalid-option', `train needs ${option}; see rectboost train --help.`);
     return value;
   };
-  const positivesPath = required(flags.positives, '--positives FOLDER_OR_ANNOTATIONS');
-  const backgroundsPath = required(flags.backgrounds, '--backgrounds FOLDER');
+  const positives = required(flags.positives, '--positives FOLDER_OR_ANNOTATIONS');
+  const backgrounds = required(flags.backgrounds, '--backgrounds FOLDER');
   const out = required(flags.out, '--out FILE');
   const window = parseWindowSize('--window', flags.window, 4, MAX_WINDOW_SIDE);
-  const stageDetectionRate = parseNumber('--stage-detection', flags.stageDetection, 0.5, 1);
-  const stageFalsePositiveRate = parseNumber('--stage-false-positive', flags.stageFalsePositive, 0.001, 0.999);
-  const targetFalsePositiveRate = parseNumber('--target-false-positive', flags.targetFalsePositive, 1e-12, 0.999);
-  const maxStages = parseInteger('--max-stages', flags.maxStages, 1, 1000);
-  const maxWeakClassifiers = parseInteger('--max-weak', flags.maxWeak, 1, 10_000);
-  const negativesPerStage = parseInteger('--negatives', flags.negatives, 10, 10_000_000);
-  const booster = parseChoice<BoosterKind>('--booster', flags.booster, ['discrete', 'gentle']);
   const featureSet = parseChoice('--features', flags.features, ['basic', 'extended']);
   if (featureSet === 'extended') {
     throw new RectboostError('invalid-option', '--features extended (tilted and centre-surround features) is not built yet; use --features basic.');
   }
-  const validationShare = parseNumber('--validation', flags.validation, 0, 0.9);
-  const seed = parseInteger('--seed', flags.seed, 0, 2 ** 31 - 1);
-  const workers = flags.workers === undefined ? availableParallelism() : parseInteger('--workers', flags.workers, 1, 256);
-  const memoryBytes = parseNumber('--memory', flags.memory, 0.01, 1024) * 1024 ** 3;
-  const checkpointDirectory = flags.checkpoint ?? `${out.replace(/\.json$/i, '')}.checkpoint`;
-  const mirror = flags.mirror === true;
-  const skipBad = flags.skipBad === true;
-  const progress = new ProgressLine(flags.quiet === true);
-  const started = performance.now();
-
-  // 1. Check every input before any long work.
-  const positives = await loadPositiveWindows(positivesPath, {
+  const options: TrainModelOptions = {
+    positives,
+    backgrounds,
+    out,
     windowWidth: window.width,
     windowHeight: window.height,
-    mirror: false,
-    skipBad,
-    onProgress: (done, total) => progress.update('positives', 'checking positives', done, total),
-  });
-  const backgrounds = await loadBackgroundImages(backgroundsPath, {
-    windowWidth: window.width,
-    windowHeight: window.height,
-    skipBad,
-    onProgress: (done, total) => progress.update('backgrounds', 'checking backgrounds', done, total),
-  });
-  for (const line of [...positives.skipped, ...backgrounds.skipped]) progress.log(`skipped: ${line.trim()}`);
-  const minimumPositives = validationShare > 0 ? 3 : 2;
-  if (positives.sourceCount < minimumPositives) {
-    throw new RectboostError('bad-data', `Training needs at least ${minimumPositives} positive patches; ${positivesPath} has ${positives.sourceCount}.`);
-  }
-  progress.log(
-    `data: ${positives.sourceCount} positives${mirror ? ' (+ mirrored copies)' : ''}, ${backgrounds.images.length} background images; ` +
-      `window ${window.width}×${window.height}, ${booster} AdaBoost, ${workers} worker${workers === 1 ? '' : 's'}`,
-  );
-
-  const options = {
-    window: `${window.width}x${window.height}`,
-    stageDetection: stageDetectionRate,
-    stageFalsePositive: stageFalsePositiveRate,
-    targetFalsePositive: targetFalsePositiveRate,
-    maxStages,
-    maxWeak: maxWeakClassifiers,
-    negatives: negativesPerStage,
-    booster,
-    features: featureSet,
-    mirror,
-    validation: validationShare,
-    memory: memoryBytes,
+    stageDetectionRate: parseNumber('--stage-detection', flags.stageDetection, 0.5, 1),
+    stageFalsePositiveRate: parseNumber('--stage-false-positive', flags.stageFalsePositive, 0.001, 0.999),
+    targetFalsePositiveRate: parseNumber('--target-false-positive', flags.targetFalsePositive, 1e-12, 0.999),
+    maxStages: parseInteger('--max-stages', flags.maxStages, 1, 1000),
+    maxWeakClassifiers: parseInteger('--max-weak', flags.maxWeak, 1, 10_000),
+    negativesPerStage: parseInteger('--negatives', flags.negatives, 10, 10_000_000),
+    booster: parseChoice<BoosterKind>('--booster', flags.booster, ['discrete', 'gentle']),
+    mirror: flags.mirror === true,
+    validationShare: parseNumber('--validation', flags.validation, 0, 0.9),
+    seed: parseInteger('--seed', flags.seed, 0, 2 ** 31 - 1),
+    memoryBytes: parseNumber('--memory', flags.memory, 0.01, 1024) * 1024 ** 3,
+    ...(flags.workers === undefined ? {} : { workers: parseInteger('--workers', flags.workers, 1, 256) }),
+    ...(flags.checkpoint === undefined ? {} : { checkpointDirectory: flags.checkpoint }),
+    resume: flags.resume === true,
+    skipBad: flags.skipBad === true,
+    recordTiming: flags.timing,
+    keepGoing: flags.keepGoing === true,
   };
-  const fingerprint: TrainingFingerprint = { ...options, seed, positivesHash: positives.contentHash, backgroundsHash: backgrounds.contentHash };
-  let completedStages: readonly Stage[] = [];
-  let stageSeconds: number[] = [];
-  if (flags.resume === true) {
-    const checkpoint = await readCheckpoint(checkpointDirectory, fingerprint);
-    completedStages = checkpoint.model.stages;
-    stageSeconds = [...checkpoint.stageSeconds];
-    progress.log(`resuming after ${completedStages.length} finished stage${completedStages.length === 1 ? '' : 's'} from ${checkpointDirectory}`);
-  }
+  const progress = new ProgressLine(flags.quiet === true);
 
-  const buildModel = (stages: readonly Stage[], stopReason: string, meanPositive?: number[]): CascadeModel =>
-    newCascadeModel(window, stages, {
-      ...(meanPositive === undefined ? {} : { meanPositive }),
-      training: {
-        tool: TOOL,
-        seed,
-        options,
-        data: {
-          positives: positives.sourceCount,
-          validationPositives: heldOutCount(positives.sourceCount, validationShare),
-          backgroundImages: backgrounds.images.length,
-          positivesHash: positives.contentHash,
-          backgroundsHash: backgrounds.contentHash,
-        },
-        stopReason,
-        ...(flags.timing
-          ? { timing: { createdAt: new Date().toISOString(), totalSeconds: round3(stageSeconds.reduce((a, b) => a + b, 0)), stageSeconds: stageSeconds.map(round3) } }
-          : {}),
-      },
-    });
-
-  // 2. Ctrl-C: stop between units of work, after any checkpoint write in progress.
-  let interruptRequested = false;
+  // Ctrl-C (or SIGTERM): stop after the current step; the finished stages are written.
+  const controller = new AbortController();
   const onSignal = (): void => {
-    if (interruptRequested) process.exit(130);
-    interruptRequested = true;
+    if (controller.signal.aborted) process.exit(130);
+    controller.abort();
     progress.log('stopping after the current step; finished stages are kept (press Ctrl-C again to quit at once)');
   };
   process.on('SIGINT', onSignal);
   process.on('SIGTERM', onSignal);
-  let pool: BoostingPool | undefined;
+  let trained: TrainedModel;
   try {
-    pool = await createBoostingPool(workers);
-    const result = await trainCascade({
-      windowWidth: window.width,
-      windowHeight: window.height,
-      positives: positives.windows,
-      backgrounds: backgrounds.images.filter((image) => image.width >= window.width && image.height >= window.height),
-      stageDetectionRate,
-      stageFalsePositiveRate,
-      targetFalsePositiveRate,
-      maxStages,
-      maxWeakClassifiers,
-      negativesPerStage,
-      booster,
-      mirror,
-      validationShare,
-      seed,
-      memoryBytes,
-      pool,
-      completedStages,
-      shouldStop: () => interruptRequested,
-      onEvent: (event) => showEvent(progress, event),
-      onStageFinished: async (stages, report) => {
-        stageSeconds.push(report.seconds);
-        await writeCheckpoint(checkpointDirectory, { model: buildModel(stages, 'interrupted'), fingerprint, stageSeconds });
-      },
-    });
-    await saveCascadeModel(out, buildModel(result.stages, result.stopMessage, result.meanPositive));
-    await removeCheckpoint(checkpointDirectory);
-    progress.clear();
-    if (flags.quiet !== true) {
-      process.stderr.write(stageTable(result.reports));
-      process.stderr.write(`${result.stopMessage}\n`);
-      process.stderr.write(`Model written to ${resolve(out)} in ${formatDuration((performance.now() - started) / 1000)}.\n`);
-    }
-  } catch (error) {
-    progress.clear();
-    if (isRectboostError(error, 'interrupted')) {
-      throw new RectboostError(
-        'interrupted',
-        `Training interrupted; finished stages are saved in ${checkpointDirectory}. Run the same command with --resume to continue.`,
-      );
-    }
-    throw error;
+    trained = await trainModel({ ...options, signal: controller.signal, onEvent: (event) => showEvent(progress, event, options) });
   } finally {
     process.off('SIGINT', onSignal);
     process.off('SIGTERM', onSignal);
-    await pool?.close();
+    progress.clear();
   }
+  const { result, written, checkpointDirectory } = trained;
+  if (result.stopReason === 'interrupted') {
+    const finished = `${result.stages.length} finished stage${result.stages.length === 1 ? '' : 's'}`;
+    throw new RectboostError(
+      'interrupted',
+      written
+        ? `Training interrupted after ${finished}: ${resolve(out)} holds them as a usable model (stop reason "interrupted"), and ${checkpointDirectory} keeps them for --resume. Run the same command with --resume to continue.`
+        : `Training interrupted before its first stage finished; nothing was saved. Run the same command to start again.`,
+    );
+  }
+  if (flags.quiet !== true) {
+    process.stderr.write(stageTable(result.reports));
+    process.stderr.write(`${result.stopMessage}\n`);
+    process.stderr.write(`Model written to ${resolve(out)} in ${formatDuration(trained.seconds)}.\n`);
+  }
+  await writeReportFromInputs(flags, { modelPath: out, detector: detectorCascadeFromModel(trained.model), model: trained.model, writtenBy: `${TOOL_NAME} train, ${new Date().toISOString()}` });
 }
 
-function showEvent(progress: ProgressLine, event: TrainingEvent): void {
+function showEvent(progress: ProgressLine, event: TrainModelEvent, options: TrainModelOptions): void {
   switch (event.phase) {
+    case 'reading':
+      progress.update(event.what, `checking ${event.what}`, event.done, event.total);
+      break;
+    case 'skipped':
+      progress.log(`skipped: ${event.line}`);
+      break;
+    case 'data':
+      progress.log(
+        `data: ${event.positives} positives${options.mirror ? ' (+ mirrored copies)' : ''}, ${event.backgroundImages} background images; ` +
+          `window ${options.windowWidth}×${options.windowHeight}, ${options.booster} AdaBoost, ${event.workers} worker${event.workers === 1 ? '' : 's'}`,
+      );
+      break;
+    case 'resumed':
+      progress.log(`resuming after ${event.stages} finished stage${event.stages === 1 ? '' : 's'} from ${event.checkpointDirectory}`);
+      break;
+    case 'no-checkpoint':
+      progress.log(`no checkpoint in ${event.checkpointDirectory} yet (the earlier run finished no stage); starting from the first stage`);
+      break;
+    case 'warning':
+      progress.log(`warning: ${event.message}`);
+      break;
     case 'mining':
       progress.update(
         `mining-${event.stageIndex}`,
@@ -298,6 +229,3 @@ function stageTable(reports: readonly StageReport[]): string {
   );
 }
 
-function round3(value: number): number {
-  return Math.round(value * 1000) / 1000;
-}

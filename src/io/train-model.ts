@@ -1,0 +1,229 @@
+import { availableParallelism } from 'node:os';
+import type { BoosterKind } from '../boost/booster.js';
+import { heldOutCount, trainCascade, type CascadeTrainingResult, type TrainingEvent } from '../cascade/build-cascade.js';
+import { newCascadeModel, type CascadeModel, type Stage } from '../cascade/cascade-model.js';
+import { loadBackgroundImages } from '../data/backgrounds.js';
+import { loadPositiveWindows } from '../data/positives.js';
+import { RectboostError, isRectboostError } from '../errors.js';
+import { readCheckpoint, removeCheckpoint, writeCheckpoint, type TrainingFingerprint } from './checkpoint.js';
+import { saveCascadeModel } from './model-file.js';
+import { createBoostingPool } from '../parallel/boosting-pool.js';
+
+/** Default of `TrainModelOptions.tool`, recorded in every model's provenance. */
+export const TOOL_NAME = 'rectboost 0.1.0';
+
+/**
+ * Everything one training run needs: where the data is, where the model goes, and the
+ * training targets. Defaults are those of `rectboost train` (its --help lists them).
+ */
+export interface TrainModelOptions {
+  /** A folder of positive patches, or an annotation file whose boxes are cropped from full images. */
+  readonly positives: string;
+  /** A folder of images with no object in them. */
+  readonly backgrounds: string;
+  /** The model file to write (atomically). */
+  readonly out: string;
+  readonly windowWidth: number;
+  readonly windowHeight: number;
+  readonly stageDetectionRate: number;
+  readonly stageFalsePositiveRate: number;
+  readonly targetFalsePositiveRate: number;
+  readonly maxStages: number;
+  readonly maxWeakClassifiers: number;
+  readonly negativesPerStage: number;
+  readonly booster: BoosterKind;
+  readonly mirror: boolean;
+  readonly validationShare: number;
+  readonly seed: number;
+  /** Cap for the precomputed feature responses, in bytes. */
+  readonly memoryBytes: number;
+  /** Boosting worker threads (default: all cores); the model does not depend on it. */
+  readonly workers?: number;
+  /** Where finished stages are saved after every stage (default: OUT without .json, plus .checkpoint). */
+  readonly checkpointDirectory?: string;
+  /** Continue from the checkpoint of an earlier run with the same options and data (a missing checkpoint starts afresh). */
+  readonly resume?: boolean;
+  /** Train without unreadable images instead of stopping before the run. */
+  readonly skipBad?: boolean;
+  /** Record wall-clock times in the model (default true); false gives byte-for-byte reproducible files. */
+  readonly recordTiming?: boolean;
+  /** Go on after a stage that stalls at maxWeakClassifiers (default false: stop there and keep the model). */
+  readonly keepGoing?: boolean;
+  /** Train on the first N positives only. */
+  readonly positiveLimit?: number;
+  /** Name of the program, recorded in the provenance (default TOOL_NAME). */
+  readonly tool?: string;
+  readonly onEvent?: (event: TrainModelEvent) => void;
+  /** Aborting stops training after the current step; the finished stages are written to OUT and the checkpoint. */
+  readonly signal?: AbortSignal;
+}
+
+/** Progress of a training run: reading and checking the data, then the cascade's own events. */
+export type TrainModelEvent =
+  | TrainingEvent
+  | { readonly phase: 'reading'; readonly what: 'positives' | 'backgrounds'; readonly done: number; readonly total: number }
+  | { readonly phase: 'skipped'; readonly line: string }
+  | { readonly phase: 'data'; readonly positives: number; readonly backgroundImages: number; readonly workers: number }
+  | { readonly phase: 'resumed'; readonly stages: number; readonly checkpointDirectory: string }
+  | { readonly phase: 'no-checkpoint'; readonly checkpointDirectory: string };
+
+export interface TrainedModel {
+  /** What was written to `out` (also when interrupted, if at least one stage had finished). */
+  readonly model: CascadeModel;
+  readonly result: CascadeTrainingResult;
+  /** Whether `out` was written: false only when interrupted before the first stage finished. */
+  readonly written: boolean;
+  readonly checkpointDirectory: string;
+  readonly seconds: number;
+}
+
+/** Stop reason recorded in a model (and checkpoint) whose training was interrupted. */
+export const INTERRUPTED_STOP_REASON = 'interrupted';
+
+/**
+ * Trains a cascade from files to a model file, as `rectboost train` does: checks every
+ * input before any long work, records provenance (options, seed, data counts and content
+ * hashes, stop reason, times), writes a checkpoint atomically after every stage, resumes
+ * from one (same result as an uninterrupted run), and always leaves the finished work
+ * behind: when `signal` aborts, the finished stages are written to `out` (stop reason
+ * "interrupted") and kept in the checkpoint, and the result says so
+ * (`result.stopReason === 'interrupted'`). A process killed at any moment leaves either
+ * no `out` or a complete one, and a checkpoint that `resume` accepts (all writes are
+ * atomic). On a finished run the checkpoint is removed.
+ * @throws RectboostError `bad-data` / `bad-image` for unusable inputs (before training starts),
+ *   `bad-data` for a checkpoint of other options or data, `invalid-option` for out-of-range options.
+ * @example
+ * const { result } = await trainModel({ positives: 'rivets/', backgrounds: 'panels/', out: 'rivets.json',
+ *   windowWidth: 24, windowHeight: 24, stageDetectionRate: 0.995, stageFalsePositiveRate: 0.5,
+ *   targetFalsePositiveRate: 1e-5, maxStages: 20, maxWeakClassifiers: 200, negativesPerStage: 2000,
+ *   booster: 'gentle', mirror: false, validationShare: 0.2, seed: 1, memoryBytes: 4 * 1024 ** 3 });
+ */
+export async function trainModel(options: TrainModelOptions): Promise<TrainedModel> {
+  const started = performance.now();
+  const emit = (event: TrainModelEvent): void => options.onEvent?.(event);
+  const window = { width: options.windowWidth, height: options.windowHeight };
+  const workers = options.workers ?? availableParallelism();
+  const skipBad = options.skipBad === true;
+  const checkpointDirectory = options.checkpointDirectory ?? `${options.out.replace(/\.json$/i, '')}.checkpoint`;
+
+  // 1. Check every input before any long work.
+  const positives = await loadPositiveWindows(options.positives, {
+    windowWidth: window.width,
+    windowHeight: window.height,
+    mirror: false,
+    skipBad,
+    onProgress: (done, total) => emit({ phase: 'reading', what: 'positives', done, total }),
+  });
+  const backgrounds = await loadBackgroundImages(options.backgrounds, {
+    windowWidth: window.width,
+    windowHeight: window.height,
+    skipBad,
+    onProgress: (done, total) => emit({ phase: 'reading', what: 'backgrounds', done, total }),
+  });
+  for (const line of [...positives.skipped, ...backgrounds.skipped]) emit({ phase: 'skipped', line: line.trim() });
+  const positiveWindows = options.positiveLimit === undefined ? positives.windows : positives.windows.slice(0, options.positiveLimit);
+  const minimumPositives = options.validationShare > 0 ? 3 : 2;
+  if (positiveWindows.length < minimumPositives) {
+    throw new RectboostError('bad-data', `Training needs at least ${minimumPositives} positive patches; ${options.positives} has ${positiveWindows.length}.`);
+  }
+  emit({ phase: 'data', positives: positiveWindows.length, backgroundImages: backgrounds.images.length, workers });
+
+  // 2. Provenance and the fingerprint a checkpoint must match.
+  const recorded = {
+    window: `${window.width}x${window.height}`,
+    stageDetection: options.stageDetectionRate,
+    stageFalsePositive: options.stageFalsePositiveRate,
+    targetFalsePositive: options.targetFalsePositiveRate,
+    maxStages: options.maxStages,
+    maxWeak: options.maxWeakClassifiers,
+    negatives: options.negativesPerStage,
+    booster: options.booster,
+    features: 'basic',
+    mirror: options.mirror,
+    validation: options.validationShare,
+    memory: options.memoryBytes,
+    ...(options.keepGoing === true ? { keepGoing: true } : {}),
+    ...(options.positiveLimit === undefined ? {} : { positiveLimit: options.positiveLimit }),
+  };
+  const fingerprint: TrainingFingerprint = { ...recorded, seed: options.seed, positivesHash: positives.contentHash, backgroundsHash: backgrounds.contentHash };
+  let completedStages: readonly Stage[] = [];
+  const stageSeconds: number[] = [];
+  if (options.resume === true) {
+    try {
+      const checkpoint = await readCheckpoint(checkpointDirectory, fingerprint);
+      completedStages = checkpoint.model.stages;
+      stageSeconds.push(...checkpoint.stageSeconds);
+      emit({ phase: 'resumed', stages: completedStages.length, checkpointDirectory });
+    } catch (error) {
+      // Killed before its first stage finished, a run leaves no checkpoint: start afresh, and say so.
+      if (!(isRectboostError(error, 'bad-data') && /There is no checkpoint/.test(error.message))) throw error;
+      emit({ phase: 'no-checkpoint', checkpointDirectory });
+    }
+  }
+  const buildModel = (stages: readonly Stage[], stopReason: string, meanPositive?: readonly number[]): CascadeModel =>
+    newCascadeModel(window, stages, {
+      ...(meanPositive === undefined ? {} : { meanPositive }),
+      training: {
+        tool: options.tool ?? TOOL_NAME,
+        seed: options.seed,
+        options: recorded,
+        data: {
+          positives: positiveWindows.length,
+          validationPositives: heldOutCount(positiveWindows.length, options.validationShare),
+          backgroundImages: backgrounds.images.length,
+          positivesHash: positives.contentHash,
+          backgroundsHash: backgrounds.contentHash,
+        },
+        stopReason,
+        ...(options.recordTiming === false
+          ? {}
+          : { timing: { createdAt: new Date().toISOString(), totalSeconds: round3(stageSeconds.reduce((a, b) => a + b, 0)), stageSeconds: stageSeconds.map(round3) } }),
+      },
+    });
+
+  // 3. Train, saving after every stage.
+  const pool = await createBoostingPool(workers);
+  let result: CascadeTrainingResult;
+  try {
+    result = await trainCascade({
+      windowWidth: window.width,
+      windowHeight: window.height,
+      positives: positiveWindows,
+      backgrounds: backgrounds.images.filter((image) => image.width >= window.width && image.height >= window.height),
+      stageDetectionRate: options.stageDetectionRate,
+      stageFalsePositiveRate: options.stageFalsePositiveRate,
+      targetFalsePositiveRate: options.targetFalsePositiveRate,
+      maxStages: options.maxStages,
+      maxWeakClassifiers: options.maxWeakClassifiers,
+      negativesPerStage: options.negativesPerStage,
+      booster: options.booster,
+      mirror: options.mirror,
+      validationShare: options.validationShare,
+      seed: options.seed,
+      memoryBytes: options.memoryBytes,
+      stopWhenStalled: options.keepGoing !== true,
+      pool,
+      completedStages,
+      shouldStop: () => options.signal?.aborted === true,
+      onEvent: emit,
+      onStageFinished: async (stages, report) => {
+        stageSeconds.push(report.seconds);
+        await writeCheckpoint(checkpointDirectory, { model: buildModel(stages, INTERRUPTED_STOP_REASON), fingerprint, stageSeconds });
+      },
+    });
+  } finally {
+    await pool.close();
+  }
+
+  // 4. Write the model: the finished one, or the stages an interrupted run finished.
+  const interrupted = result.stopReason === 'interrupted';
+  const model = buildModel(result.stages, interrupted ? INTERRUPTED_STOP_REASON : result.stopMessage, result.meanPositive);
+  const written = result.stages.length > 0 || !interrupted;
+  if (written) await saveCascadeModel(options.out, model);
+  if (!interrupted) await removeCheckpoint(checkpointDirectory);
+  return { model, result, written, checkpointDirectory, seconds: (performance.now() - started) / 1000 };
+}
+
+function round3(value: number): number {
+  return Math.round(value * 1000) / 1000;
+}
