@@ -4,19 +4,17 @@ import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import { extname, join, normalize } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { chromium } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { decodeGrayImageFile } from '../../src/io/decode-image.js';
+import { launchChromium, shouldRunBrowserTests } from '../helpers/chromium.js';
 import { runCli } from '../helpers/run-cli.js';
 
 // The runtime (dist/runtime, built by npm test) in Debian's Chromium: a static page runs the
 // demo cascade on demo panel p03 and must find what `rectboost detect` finds.
-const CHROMIUM = '/usr/bin/chromium';
 const ROOT = fileURLToPath(new URL('../../', import.meta.url));
 const MODEL = fileURLToPath(new URL('../fixtures/demo-cascade.json', import.meta.url));
 const PANEL = fileURLToPath(new URL('../../demo-patches/scenes/p03.png', import.meta.url));
-const haveChromium = existsSync(CHROMIUM) || Boolean(process.env.CI);
-if (!haveChromium) console.warn(`Browser runtime test skipped: no ${CHROMIUM} (apt-get install -y chromium).`);
+const haveChromium = shouldRunBrowserTests();
 
 const TYPES: Record<string, string> = { '.js': 'text/javascript', '.html': 'text/html', '.json': 'application/json', '.map': 'application/json' };
 
@@ -58,18 +56,14 @@ describe.skipIf(!haveChromium)('rectboost/runtime in Chromium', () => {
     const cli = runCli(['detect', MODEL, PANEL, '--no-timing', '--quiet', '--workers', '0', ...options]);
     expect(cli.status).toBe(0);
     const expected = JSON.parse(cli.stdout) as { detections: unknown[]; windowsScanned: number };
-    const context = await chromium.launchPersistentContext(join(work, 'profile'), {
-      executablePath: CHROMIUM,
-      headless: true,
-      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-    });
+    const browser = await launchChromium();
     try {
-      const page = await context.newPage();
       const merge = JSON.stringify({ method: 'mean', overlap: 0.5, minSupport: 3 });
-      await page.goto(`${origin}/?width=${panel.width}&height=${panel.height}&merge=${encodeURIComponent(merge)}`);
+      const { page, errors } = await browser.openUrl(`${origin}/?width=${panel.width}&height=${panel.height}&merge=${encodeURIComponent(merge)}`);
       await page.waitForFunction(() => (globalThis as { rectboostResult?: unknown }).rectboostResult !== undefined, undefined, { timeout: 60_000 });
       const result = (await page.evaluate(() => (globalThis as { rectboostResult?: unknown }).rectboostResult)) as Record<string, { engine: string; detections: unknown[]; windowsScanned: number }> & { error?: string; kernelAvailable?: boolean };
       expect(result.error).toBeUndefined();
+      expect(errors).toEqual([]);
       expect(result.kernelAvailable).toBe(true);
       expect(expected.detections.length).toBeGreaterThan(5);
       for (const [name, engine] of [['auto', 'kernel'], ['plain', 'plain'], ['imageData', 'kernel']] as const) {
@@ -79,7 +73,7 @@ describe.skipIf(!haveChromium)('rectboost/runtime in Chromium', () => {
         expect(result[name]!.windowsScanned).toBe(expected.windowsScanned);
       }
     } finally {
-      await context.close();
+      await browser.close();
     }
   });
 });
