@@ -11,7 +11,8 @@ cd "$(dirname "$0")/.."
 # Debian package, and the command that shows it is installed.
 TEST_PACKAGES=(
   slurm-wlm:slurmctld munge:munged   # test/slurm: a one-node Slurm cluster for the job-array recipe
-  chromium:chromium                  # test/report: the report page in a real browser
+  chromium:chromium                  # test/report: the report page in a real browser; test/runtime: rectboost/runtime in a browser
+  gcc:cc                             # test/runtime: the C99 export, compiled with the sanitizers
 )
 problems=0
 note() { echo "prepare-tests: $*" >&2; problems=$((problems + 1)); }

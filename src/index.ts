@@ -102,6 +102,7 @@ export {
   RUNTIME_LIMITS,
   type RuntimeCascadeFile,
 } from './cascade/runtime-export.js';
+export { exportCDetector, cWorkBytes, type CDetectorExport, type CDetectorTemplates } from './cascade/c-export.js';
 export { cascadeDepthScores, evaluatePatches, type PatchEvaluation, type StagePassRates } from './metrics/patch-evaluation.js';
 export { evaluateDetections, summarizeScans, type DetectionEvaluation, type ScanSummary } from './metrics/detection-evaluation.js';
 export { retuneCascade, backgroundPassRates, type RetuneOptions, type RetuneResult, type RetunedStage } from './cascade/retune.js';

@@ -9,7 +9,7 @@ import { describe, expect, it } from 'vitest';
  * one after it. The compute core comes first (DEVELOPERS.md), the I/O folders after it,
  * the command line last. Type-only imports count: a circle of types is still a circle.
  */
-const LAYERS = ['image', 'features', 'model', 'detect', 'boost', 'cascade', 'metrics', 'report', 'io', 'data', 'parallel', 'jobs', 'cli'] as const;
+const LAYERS = ['image', 'features', 'model', 'detect', 'boost', 'cascade', 'metrics', 'report', 'runtime', 'io', 'data', 'parallel', 'jobs', 'cli'] as const;
 const SOURCE = fileURLToPath(new URL('../src/', import.meta.url));
 
 /** Every import between folders: [importing folder, imported folder, file]. */

@@ -26,7 +26,9 @@ export interface OpenedPage {
 }
 
 /** One headless chromium, offline-minded flags, a fresh profile; close() removes the profile. */
-export async function launchChromium(viewport = { width: 1400, height: 1000 }): Promise<{ open: (path: string) => Promise<OpenedPage>; close: () => Promise<void> }> {
+export async function launchChromium(
+  viewport = { width: 1400, height: 1000 },
+): Promise<{ open: (path: string) => Promise<OpenedPage>; openUrl: (url: string) => Promise<OpenedPage>; close: () => Promise<void> }> {
   const profile = mkdtempSync(join(tmpdir(), 'rectboost-chromium-'));
   const context: BrowserContext = await chromium.launchPersistentContext(profile, {
     executablePath: CHROMIUM,
@@ -37,22 +39,24 @@ export async function launchChromium(viewport = { width: 1400, height: 1000 }): 
       '--disable-background-networking', '--disable-component-update', '--disable-sync',
     ],
   });
+  const openUrl = async (url: string): Promise<OpenedPage> => {
+    const page = await context.newPage();
+    const errors: string[] = [];
+    const requests: string[] = [];
+    page.on('console', (message) => {
+      if (message.type() === 'error') errors.push(message.text());
+    });
+    page.on('pageerror', (error) => errors.push(error.message));
+    page.on('request', (request) => {
+      if (request.url() !== url) requests.push(request.url());
+    });
+    await page.goto(url, { waitUntil: 'load' });
+    return { page, errors, requests };
+  };
   return {
-    open: async (path: string) => {
-      const page = await context.newPage();
-      const url = pathToFileURL(path).href;
-      const errors: string[] = [];
-      const requests: string[] = [];
-      page.on('console', (message) => {
-        if (message.type() === 'error') errors.push(message.text());
-      });
-      page.on('pageerror', (error) => errors.push(error.message));
-      page.on('request', (request) => {
-        if (request.url() !== url) requests.push(request.url());
-      });
-      await page.goto(url, { waitUntil: 'load' });
-      return { page, errors, requests };
-    },
+    open: async (path: string) => openUrl(pathToFileURL(path).href),
+    /** A page served over HTTP (module scripts do not load from file: URLs). */
+    openUrl,
     close: async () => {
       await context.close();
       rmSync(profile, { recursive: true, force: true });

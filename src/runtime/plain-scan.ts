@@ -1,0 +1,98 @@
+import type { DetectorCascade } from '../detect/detector-cascade.js';
+import { compileCascadeAtScale } from '../detect/compiled-cascade.js';
+import { resolveScanOptions, scanScales, type RawHits, type ScanOptions, type ScanResult, type ScanStatistics } from '../detect/scan-image.js';
+import type { IntegralImage } from '../image/integral-image.js';
+import { FLAT_WINDOW_VARIANCE } from '../image/window-statistics.js';
+
+/**
+ * THE score of an accepted window, from the margin (Σ votes − threshold) of the
+ * last stage; 0 for a cascade without stages. The scan kernel computes the same
+ * value (scan-kernel.wat); change the meaning of a score here and there together.
+ */
+export function detectionScore(lastStageMargin: number): number {
+  return lastStageMargin;
+}
+
+/**
+ * scanImage without WebAssembly: the same scales (scanScales), the same cascade
+ * compiled per scale (compileCascadeAtScale), the same windows in the same order, and
+ * per window the order of arithmetic stated on scanImage, operation for
+ * operation, so that hits, scores and statistics are the kernel's bits
+ * (test/runtime/plain-scan.test.ts compares them). For environments without
+ * WebAssembly SIMD; several times slower than the kernel.
+ * @throws RectboostError `invalid-option` for options out of range.
+ */
+export function scanImagePlain(cascade: DetectorCascade, integral: IntegralImage, options: ScanOptions = {}): ScanResult {
+  const resolved = resolveScanOptions(options);
+  const stageCount = cascade.stages.length;
+  const statistics: ScanStatistics = {
+    windowsScanned: 0,
+    flatWindows: 0,
+    featuresEvaluated: 0,
+    rejectedAtStage: new Array<number>(stageCount).fill(0),
+    accepted: 0,
+    scales: 0,
+  };
+  const found = { x: [] as number[], y: [] as number[], width: [] as number[], height: [] as number[], score: [] as number[] };
+  const { sum, squaredSum: squared, stride } = integral;
+  for (const scale of scanScales(cascade, integral.width, integral.height, resolved)) {
+    const c = compileCascadeAtScale(cascade, scale, stride, resolved.shift);
+    const { windowWidth, windowHeight, step, stageEnds, thresholds, weakEnds, splitValues, belowOutputs, aboveOutputs, offsets, coefficients } = c;
+    const bottomRight = windowHeight * stride + windowWidth;
+    const bottomLeft = windowHeight * stride;
+    const topRight = windowWidth;
+    const inverseCount = 1 / (windowWidth * windowHeight);
+    for (let y = 0; y + windowHeight <= integral.height; y += step) {
+      for (let x = 0; x + windowWidth <= integral.width; x += step) {
+        statistics.windowsScanned++;
+        const at = y * stride + x;
+        const total = sum[at + bottomRight]! - sum[at + bottomLeft]! - sum[at + topRight]! + sum[at]!;
+        const totalSquared = squared[at + bottomRight]! - squared[at + bottomLeft]! - squared[at + topRight]! + squared[at]!;
+        const mean = total * inverseCount;
+        const variance = totalSquared * inverseCount - mean * mean;
+        if (variance < FLAT_WINDOW_VARIANCE) {
+          statistics.flatWindows++;
+          continue;
+        }
+        const inverseDeviation = 1 / Math.sqrt(variance);
+        let margin = 0;
+        let weak = 0;
+        let corner = 0;
+        let passed = true;
+        for (let stage = 0; stage < stageCount; stage++) {
+          let score = 0;
+          const weakEnd = stageEnds[stage]!;
+          statistics.featuresEvaluated += weakEnd - weak;
+          for (; weak < weakEnd; weak++) {
+            let value = 0;
+            for (const cornerEnd = weakEnds[weak]!; corner < cornerEnd; corner++) value += coefficients[corner]! * sum[at + offsets[corner]!]!;
+            score += value * inverseDeviation < splitValues[weak]! ? belowOutputs[weak]! : aboveOutputs[weak]!;
+          }
+          margin = score - thresholds[stage]!;
+          if (margin < 0) {
+            statistics.rejectedAtStage[stage]!++;
+            passed = false;
+            break;
+          }
+        }
+        if (!passed) continue;
+        statistics.accepted++;
+        found.x.push(x);
+        found.y.push(y);
+        found.width.push(windowWidth);
+        found.height.push(windowHeight);
+        found.score.push(detectionScore(margin));
+      }
+    }
+    statistics.scales++;
+  }
+  const hits: RawHits = {
+    count: found.x.length,
+    x: Float64Array.from(found.x),
+    y: Float64Array.from(found.y),
+    width: Float64Array.from(found.width),
+    height: Float64Array.from(found.height),
+    score: Float64Array.from(found.score),
+  };
+  return { hits, statistics };
+}
