@@ -214,10 +214,14 @@ static void rbd_compile_scale(rbd_work *w, double scale, size_t stride)
   }
 }
 
-/* THE score of an accepted window, from the margin (sum of votes minus
- * threshold) of the last stage; 0 for a cascade without stages. Change the
- * meaning of a detection's score here and only here. */
-static rbd_score rbd_detection_score(rbd_score last_stage_margin) { return last_stage_margin; }
+/* THE score of a window, step by step: its evidence after stage `stage`, from
+ * the evidence of the stages before and this stage's margin (sum of votes minus
+ * threshold): ((m0 + m1) + m2) + ..., the first margin alone at stage 0; 0 for a
+ * cascade without stages. rectboost's scan computes the same (RawHits, scanImage);
+ * change the meaning of a detection's score here and only here. */
+static rbd_score rbd_detection_score(int32_t stage, rbd_score evidence_before, rbd_score margin) {
+  return stage == 0 ? margin : evidence_before + margin;
+}
 
 #ifdef RBD_INTEGER
 /* floor(sqrt(v)) for 64-bit v, bit by bit (no floating point). */
@@ -241,7 +245,8 @@ static uint64_t rbd_isqrt(uint64_t v) {
  *   mean = total * (1/n); variance = squares * (1/n) - mean * mean;
  *   flat when variance < 1e-4; inverse = 1 / sqrt(variance);
  *   value = ((0 + c0*S[o0]) + c1*S[o1]) + ...; vote = value * inverse < split ? below : above;
- *   margin = ((0 + vote0) + vote1 + ...) - threshold, passing when not below 0.
+ *   margin = ((0 + vote0) + vote1 + ...) - threshold, passing when not below 0;
+ *   score = ((margin0 + margin1) + margin2) + ... (rbd_detection_score).
  * Integer build: n^2 var = n * squares - total^2 exactly (64 bits); flat when
  * 10^4 * n^2 var < n^2; s = floor(2^7 * n * sigma) by integer square root;
  * value in RBD_VALUE_BITS fixed point; value / sigma < split becomes
@@ -255,7 +260,7 @@ static int rbd_window(const rbd_work *w, size_t at, int32_t bottom_right, int32_
                       rbd_score *score) {
   const rbd_entry *s = w->sum + at, *q = w->squared + at;
   int32_t stage, classifier = 0, corner = 0;
-  rbd_score margin = 0;
+  rbd_score evidence = 0;
 #ifdef RBD_INTEGER
   uint32_t total = s[bottom_right] - s[bottom_left] - s[top_right] + s[0];
   uint32_t squares = q[bottom_right] - q[bottom_left] - q[top_right] + q[0];
@@ -287,10 +292,17 @@ static int rbd_window(const rbd_work *w, size_t at, int32_t bottom_right, int32_
       sum_of_votes = sum_of_votes + (value * inverse < rbd_split[classifier] ? rbd_below[classifier] : rbd_above[classifier]);
 #endif
     }
-    margin = sum_of_votes - rbd_threshold[stage];
-    if (margin < 0) return 0;
+    {
+      rbd_score margin = sum_of_votes - rbd_threshold[stage];
+      if (margin < 0) return 0;
+#ifdef RBD_INTEGER
+      /* The pass test used the lowered threshold; the score counts from the threshold itself. */
+      margin = sum_of_votes - rbd_score_threshold[stage];
+#endif
+      evidence = rbd_detection_score(stage, evidence, margin);
+    }
   }
-  *score = rbd_detection_score(margin);
+  *score = evidence;
   return 1;
 }
 

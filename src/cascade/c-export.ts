@@ -78,11 +78,14 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
   // the exact sum: lowering the threshold by m/2 units keeps every window whose exact sum reaches
   // it, including the many exact ties (training sets thresholds at a positive's own sum of votes).
   table('int64_t', 'rbd_threshold', stages.map((s) => `${Math.floor(s.threshold * scaleVote - s.weakClassifiers.length / 2)}LL`));
+  // The score counts each margin from the threshold itself (rounded), not from the lowered one, so
+  // the integer build's scores stay within the votes' rounding of the float build's.
+  table('int64_t', 'rbd_score_threshold', stages.map((s) => cInteger(s.threshold * scaleVote)));
   table('int64_t', 'rbd_split', classifiers.map((w) => cInteger(w.splitValue * scaleValue)));
   table('int64_t', 'rbd_below', classifiers.map((w) => cInteger(w.belowOutput * scaleVote)));
   table('int64_t', 'rbd_above', classifiers.map((w) => cInteger(w.aboveOutput * scaleVote)));
   lines.push('#define RBD_TABLE_BYTES (sizeof rbd_stage_end + sizeof rbd_classifier_end + sizeof rbd_rectangle + sizeof rbd_rectangle_weight_area \\');
-  lines.push('  + sizeof rbd_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above)');
+  lines.push('  + sizeof rbd_threshold + sizeof rbd_score_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above)');
   lines.push('#else');
   table('double', 'rbd_rectangle_weight', rectangles.map((r) => cDouble(r.weight)));
   table('double', 'rbd_threshold', stages.map((s) => cDouble(s.threshold)));
@@ -104,8 +107,9 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
   return {
     header,
     source: `${lines.join('\n')}\n${templates.core}`,
-    // Both builds keep one 8-byte number per rectangle, stage and classifier field (double or int64).
-    tableBytes: { float: numbers, integer: numbers },
+    // Both builds keep one 8-byte number per rectangle, stage and classifier field (double or int64);
+    // the integer build a second threshold per stage, the one its scores count from.
+    tableBytes: { float: numbers, integer: numbers + 8 * counts.stages },
     valueBits,
   };
 }

@@ -48,8 +48,9 @@
   ;; Window-list mode. presetCount ≥ 0: the live list already holds that many
   ;; windows with their 1/σ (written by the caller, flat windows left out), so
   ;; scanRow skips the row and starts at the first stage. keepAll = 1: every
-  ;; listed window survives every stage with its margin (score − threshold), in
-  ;; list order, so callers can read scores of windows that a stage rejects.
+  ;; listed window survives every stage with its evidence (the margin itself
+  ;; for a one-stage call), in list order, so callers can read scores of
+  ;; windows that a stage rejects.
   (global $presetCount (export "presetCount") (mut i32) (i32.const -1))
   (global $keepAll (export "keepAll") (mut i32) (i32.const 0))
 
@@ -61,14 +62,17 @@
 
   ;; Scans the windows firstWindow, firstWindow + step, … ≤ lastWindow (byte
   ;; addresses, step in bytes) of one row through every stage. Leaves the
-  ;; accepted windows in the live list (address, 1/σ, last stage's margin, or 0
-  ;; without stages) and returns how many there are. Adds to the tally.
+  ;; accepted windows in the live list (address, 1/σ, evidence, or 0 without
+  ;; stages) and returns how many there are. Adds to the tally.
   ;;
   ;; Windows go four at a time (two f64x2 halves, A and B) through each stage:
   ;; the score is Σ outputs from 0 in classifier order; a classifier's value is
   ;; Σ coefficient · entry over its corners from 0 in corner order, and it adds
   ;; belowOutput when value · (1/σ) < splitValue, else aboveOutput. A window
-  ;; passes when score − threshold ≥ 0, and that margin becomes its score.
+  ;; passes when its margin, score − threshold, is ≥ 0. A window's evidence is
+  ;; the sum of its margins over the stages it passed, added in stage order
+  ;; (((m₀ + m₁) + m₂) + …, the first stage's margin alone at the first stage of
+  ;; the call); that is the score it leaves in the list.
   ;;
   ;; Stage 0 of a row at a one-pixel shift takes its windows straight from the
   ;; row, four adjacent ones at a time, computing σ on the way (flat windows
@@ -86,7 +90,7 @@
     (local $total v128) (local $totalSquared v128) (local $mean v128) (local $variance v128) (local $keep v128)
     (local $coefficient v128) (local $inverseA v128) (local $inverseB v128) (local $valueA v128) (local $valueB v128)
     (local $scoreA v128) (local $scoreB v128) (local $below v128) (local $above v128) (local $split v128)
-    (local $threshold v128) (local $keepA v128) (local $keepB v128)
+    (local $threshold v128) (local $keepA v128) (local $keepB v128) (local $priorA v128) (local $priorB v128)
     (local $bottomRight i32) (local $bottomLeft i32) (local $topRight i32) (local $squaredDistance i32)
     (local $windowsAt i32) (local $inverseDeviationsAt i32) (local $scoresAt i32)
     (local $inverseCount v128) (local $flatVariance v128) (local $keepAllMask v128)
@@ -263,6 +267,10 @@
                 (local.set $offset (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $index) (i32.const 3))))
                 (local.set $inverseA (v128.load (local.get $offset)))
                 (local.set $inverseB (v128.load offset=16 (local.get $offset)))
+                ;; The evidence so far: the sum of the earlier stages' margins (unused at the first stage).
+                (local.set $offset (i32.add (local.get $scoresAt) (i32.shl (local.get $index) (i32.const 3))))
+                (local.set $priorA (v128.load (local.get $offset)))
+                (local.set $priorB (v128.load offset=16 (local.get $offset)))
                 (local.set $take0 (i32.const 1))
                 (local.set $take1 (i32.lt_u (i32.add (local.get $index) (i32.const 1)) (local.get $count)))
                 (local.set $take2 (i32.lt_u (i32.add (local.get $index) (i32.const 2)) (local.get $count)))
@@ -331,6 +339,11 @@
             (local.set $scoreB (f64x2.sub (local.get $scoreB) (local.get $threshold)))
             (local.set $keepA (v128.or (local.get $keepAllMask) (v128.not (f64x2.lt (local.get $scoreA) (f64x2.splat (f64.const 0))))))
             (local.set $keepB (v128.or (local.get $keepAllMask) (v128.not (f64x2.lt (local.get $scoreB) (f64x2.splat (f64.const 0))))))
+            ;; A window's score is its evidence: the first stage's margin, plus each later stage's in turn.
+            (if (local.get $stage)
+              (then
+                (local.set $scoreA (f64x2.add (local.get $priorA) (local.get $scoreA)))
+                (local.set $scoreB (f64x2.add (local.get $priorB) (local.get $scoreB)))))
             ;; Write all four at `kept`, each taking its slot only when taken and passing.
             (i32.store (i32.add (local.get $windowsAt) (i32.shl (local.get $kept) (i32.const 2))) (local.get $window0))
             (v128.store64_lane 0 (i32.add (local.get $inverseDeviationsAt) (i32.shl (local.get $kept) (i32.const 3))) (local.get $inverseA))

@@ -148,17 +148,20 @@ export function acceptSamples(cascade: DetectorCascade, samples: WindowSamples):
 
 /**
  * How far each sample gets: stagesPassed[s] stages passed before the first it
- * fails (stages.length when accepted), and margins[s] the margin of that failing
- * stage, or of the last stage when accepted (0 without stages). Flat samples pass
- * no stage and get margin −∞.
+ * fails (stages.length when accepted), margins[s] the margin of that failing
+ * stage, or of the last stage when accepted (0 without stages), and evidence[s]
+ * the sum of the margins of the stages it passed, in stage order — for an accepted
+ * sample, the score detection gives the same window (RawHits), bit for bit (0 when
+ * no stage passed). Flat samples pass no stage and get margin −∞.
  */
-export function cascadeDepths(cascade: DetectorCascade, samples: WindowSamples): { stagesPassed: Int32Array; margins: Float64Array } {
+export function cascadeDepths(cascade: DetectorCascade, samples: WindowSamples): { stagesPassed: Int32Array; margins: Float64Array; evidence: Float64Array } {
   const stagesPassed = new Int32Array(samples.count);
   const margins = new Float64Array(samples.count);
+  const evidence = new Float64Array(samples.count);
   const listed = listSamples(samples);
   for (let s = 0; s < samples.count; s++) if (samples.inverseStandardDeviations[s] === 0) margins[s] = -Infinity;
   let alive = listed.indices.length;
-  if (alive === 0 || cascade.stages.length === 0) return { stagesPassed, margins };
+  if (alive === 0 || cascade.stages.length === 0) return { stagesPassed, margins, evidence };
   const { indices, entries, inverses } = listed;
   const stageMargins = new Float64Array(alive);
   withSamples(cascade, samples, alive, (evaluator) => {
@@ -171,6 +174,8 @@ export function cascadeDepths(cascade: DetectorCascade, samples: WindowSamples):
         const s = indices[i]!;
         margins[s] = margin;
         if (margin < 0) continue;
+        // The kernel's order: the first margin alone, then each later one added.
+        evidence[s] = stage === 0 ? margin : evidence[s]! + margin;
         stagesPassed[s] = stage + 1;
         indices[kept] = s;
         entries[kept] = entries[i]!;
@@ -179,7 +184,7 @@ export function cascadeDepths(cascade: DetectorCascade, samples: WindowSamples):
       alive = kept;
     }
   });
-  return { stagesPassed, margins };
+  return { stagesPassed, margins, evidence };
 }
 
 /**

@@ -5,21 +5,25 @@ import { rocCurve, type RocCurve } from './roc-curve.js';
 
 /**
  * How far each window-sized sample gets through a cascade, as one number that
- * orders samples by depth first and margin second ("cascade depth score"):
- * a sample that passed k stages and stopped with margin m (Σ − threshold of the
- * stage it failed, or of the last stage when it passed all) scores
- * k + m / (1 + |m|). Rejected samples score in (k − 1, k); accepted ones in
- * [S, S + 1) for a cascade of S stages, so "score ≥ S" is exactly the cascade's
- * own decision and lower thresholds trade false positives for detections.
+ * orders samples by depth first and evidence second ("cascade depth score"):
+ * a sample rejected after passing k stages, with margin m < 0 (Σ − threshold of
+ * the stage it failed), scores k + m / (1 + |m|), in (k − 1, k); an accepted one
+ * scores S + e / (1 + e) for a cascade of S stages, where e ≥ 0 is its detection
+ * score (the sum of its stage margins, RawHits), in [S, S + 1). So "score ≥ S" is
+ * exactly the cascade's own decision, accepted samples rank as detection ranks
+ * them, and lower thresholds trade false positives for detections.
  * Flat samples pass no stage, as in detection, and score −1, below every other.
  * Margins come from the scan kernel (cascadeDepths), the bits detection computes.
  */
 export function cascadeDepthScores(cascade: DetectorCascade, samples: WindowSamples): { scores: Float64Array; stagesPassed: Int32Array } {
-  const { stagesPassed, margins } = cascadeDepths(cascade, samples);
+  const { stagesPassed, margins, evidence } = cascadeDepths(cascade, samples);
+  const stageCount = cascade.stages.length;
   const scores = new Float64Array(samples.count);
   for (let s = 0; s < samples.count; s++) {
     const margin = margins[s]!;
-    scores[s] = margin === -Infinity ? -1 : stagesPassed[s]! + margin / (1 + Math.abs(margin));
+    const accepted = stagesPassed[s] === stageCount && margin !== -Infinity;
+    const tail = accepted ? evidence[s]! : margin;
+    scores[s] = margin === -Infinity ? -1 : stagesPassed[s]! + tail / (1 + Math.abs(tail));
   }
   return { scores, stagesPassed };
 }

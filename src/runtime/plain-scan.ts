@@ -5,12 +5,14 @@ import type { IntegralImage } from '../image/integral-image.js';
 import { FLAT_WINDOW_VARIANCE } from '../image/window-statistics.js';
 
 /**
- * THE score of an accepted window, from the margin (Σ votes − threshold) of the
- * last stage; 0 for a cascade without stages. The scan kernel computes the same
- * value (scan-kernel.wat); change the meaning of a score here and there together.
+ * THE score of a window, step by step: its evidence after one more stage, from the
+ * evidence of the stages before (undefined at the first) and this stage's margin
+ * (Σ votes − threshold): ((m₀ + m₁) + m₂) + …, as RawHits states; 0 for a cascade
+ * without stages. The scan kernel (scan-kernel.wat) and the C export
+ * (rbd_detection_score) compute the same value; change them together.
  */
-export function detectionScore(lastStageMargin: number): number {
-  return lastStageMargin;
+export function detectionScore(evidenceBefore: number | undefined, margin: number): number {
+  return evidenceBefore === undefined ? margin : evidenceBefore + margin;
 }
 
 /**
@@ -55,7 +57,7 @@ export function scanImagePlain(cascade: DetectorCascade, integral: IntegralImage
           continue;
         }
         const inverseDeviation = 1 / Math.sqrt(variance);
-        let margin = 0;
+        let evidence = 0;
         let weak = 0;
         let corner = 0;
         let passed = true;
@@ -68,12 +70,13 @@ export function scanImagePlain(cascade: DetectorCascade, integral: IntegralImage
             for (const cornerEnd = weakEnds[weak]!; corner < cornerEnd; corner++) value += coefficients[corner]! * sum[at + offsets[corner]!]!;
             score += value * inverseDeviation < splitValues[weak]! ? belowOutputs[weak]! : aboveOutputs[weak]!;
           }
-          margin = score - thresholds[stage]!;
+          const margin = score - thresholds[stage]!;
           if (margin < 0) {
             statistics.rejectedAtStage[stage]!++;
             passed = false;
             break;
           }
+          evidence = detectionScore(stage === 0 ? undefined : evidence, margin);
         }
         if (!passed) continue;
         statistics.accepted++;
@@ -81,7 +84,7 @@ export function scanImagePlain(cascade: DetectorCascade, integral: IntegralImage
         found.y.push(y);
         found.width.push(windowWidth);
         found.height.push(windowHeight);
-        found.score.push(detectionScore(margin));
+        found.score.push(evidence);
       }
     }
     statistics.scales++;

@@ -41,6 +41,7 @@ function expectAgreement(model: CascadeModel, windows: readonly GrayImage[]): vo
     expect(accepted[s], `accept, sample ${s}`).toBe(twin.stagesPassed === model.stages.length ? 1 : 0);
     expect(depths.stagesPassed[s], `depth, sample ${s}`).toBe(twin.stagesPassed);
     expect(Object.is(depths.margins[s], twin.margin), `margin, sample ${s}: ${depths.margins[s]} vs ${twin.margin}`).toBe(true);
+    expect(Object.is(depths.evidence[s], twin.evidence), `evidence, sample ${s}: ${depths.evidence[s]} vs ${twin.evidence}`).toBe(true);
     expect(depthScores.stagesPassed[s]).toBe(twin.stagesPassed);
   });
   model.stages.forEach((stage, k) => {
@@ -158,11 +159,11 @@ describe('windows cut from an image score as the same samples do', () => {
       const y = hits.y[i]!;
       if (x % 12 === 0 && y % 10 === 0) atTiles.set((y / 10) * 8 + x / 12, hits.score[i]!);
     }
-    const { stagesPassed, margins } = cascadeDepths(detector, packWindowSamples(windows, 12, 10));
+    const { stagesPassed, evidence } = cascadeDepths(detector, packWindowSamples(windows, 12, 10));
     windows.forEach((_, k) => {
       const accepted = stagesPassed[k] === lowered.stages.length;
       expect(atTiles.has(k), `tile ${k}`).toBe(accepted);
-      if (accepted) expect(Object.is(atTiles.get(k), margins[k])).toBe(true);
+      if (accepted) expect(Object.is(atTiles.get(k), evidence[k])).toBe(true);
     });
     expect(atTiles.size).toBeGreaterThan(0);
     expect(atTiles.size).toBeLessThan(windows.length);

@@ -6,7 +6,7 @@ import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.j
 import type { IntegralImage } from '../../src/image/integral-image.js';
 import { windowStatistics } from '../../src/image/window-statistics.js';
 
-/** What the twin found: hits as "x,y,width,height,margin" strings and the scan's counters. */
+/** What the twin found: hits as "x,y,width,height,score" strings (score: the evidence, see RawHits) and the scan's counters. */
 export interface TwinScan {
   readonly hits: string[];
   readonly statistics: Omit<ScanStatistics, 'scales'>;
@@ -17,7 +17,7 @@ export interface TwinScan {
  * σ from windowStatistics (flat windows skipped), every feature through the
  * training side's evaluateNormalizedFeature, outputs summed from 0 in order,
  * and the window leaving at the first stage whose sum is below the threshold.
- * Its margins (sums of outputs minus thresholds) equal the scan's bit for bit
+ * Its scores (the sums of its stage margins) equal the scan's bit for bit
  * whenever the decisions agree.
  */
 export function scanTwin(model: CascadeModel, integral: IntegralImage, options: ScanOptions = {}): TwinScan {
@@ -36,21 +36,23 @@ export function scanTwin(model: CascadeModel, integral: IntegralImage, options: 
           statistics.flatWindows++;
           continue;
         }
-        let margin = 0;
-        const failedAt = model.stages.findIndex((stage) => {
+        let evidence = 0;
+        const failedAt = model.stages.findIndex((stage, k) => {
           let score = 0;
           for (const weak of stage.weakClassifiers) {
             score += evaluateNormalizedFeature(integral, weak.feature, x, y, windowWidth, windowHeight, scale) < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
           }
           statistics.featuresEvaluated += stage.weakClassifiers.length;
-          margin = score - stage.threshold;
+          const margin = score - stage.threshold;
+          // Evidence: the margins of the stages passed, added in stage order (RawHits).
+          evidence = k === 0 ? margin : evidence + margin;
           return score < stage.threshold;
         });
         if (failedAt >= 0) {
           statistics.rejectedAtStage[failedAt]!++;
         } else {
           statistics.accepted++;
-          hits.push(`${x},${y},${width},${height},${margin}`);
+          hits.push(`${x},${y},${width},${height},${evidence}`);
         }
       }
     }

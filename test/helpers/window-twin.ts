@@ -17,6 +17,8 @@ export interface TwinDepth {
   readonly stagesPassed: number;
   /** Margin of the failing stage, or of the last when accepted (0 without stages); −∞ when flat. */
   readonly margin: number;
+  /** Sum of the margins of the stages passed, in stage order (the detection score when accepted); 0 when none. */
+  readonly evidence: number;
 }
 
 /** Σ outputs of one stage on one window; −∞ for a flat window. */
@@ -33,14 +35,16 @@ export function twinStageScore(stage: Pick<Stage, 'weakClassifiers'>, window: Gr
 /** How far one window gets through the cascade. */
 export function twinDepth(model: Pick<CascadeModel, 'stages'>, window: GrayImage): TwinDepth {
   const integral = computeIntegralImage(window);
-  if (windowInverseDeviation(integral, 0, 0, window.width, window.height) === 0) return { stagesPassed: 0, margin: -Infinity };
+  if (windowInverseDeviation(integral, 0, 0, window.width, window.height) === 0) return { stagesPassed: 0, margin: -Infinity, evidence: 0 };
   let margin = 0;
+  let evidence = 0;
   for (let k = 0; k < model.stages.length; k++) {
     const stage = model.stages[k]!;
     margin = twinStageScore(stage, window) - stage.threshold;
-    if (margin < 0) return { stagesPassed: k, margin };
+    if (margin < 0) return { stagesPassed: k, margin, evidence };
+    evidence = k === 0 ? margin : evidence + margin;
   }
-  return { stagesPassed: model.stages.length, margin };
+  return { stagesPassed: model.stages.length, margin, evidence };
 }
 
 /** Stages passed by each window (the old training-side scorer's contract, now a test twin). */
