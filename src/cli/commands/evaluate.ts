@@ -6,6 +6,8 @@ import { packWindowSamples } from '../../features/window-samples.js';
 import { writeFileAtomic } from '../../io/atomic-write.js';
 import { evaluateDetections, summarizeScans } from '../../metrics/detection-evaluation.js';
 import { evaluatePatches } from '../../metrics/patch-evaluation.js';
+import { detectionErrors } from '../../metrics/match-detections.js';
+import { writeErrorCrops } from '../../io/box-crops.js';
 import { detectFiles } from '../../parallel/detect-files.js';
 import type { ScanStatistics } from '../../detect/scan-image.js';
 import type { Box } from '../../metrics/intersection-over-union.js';
@@ -26,15 +28,19 @@ export function registerEvaluateCommand(program: Command): void {
     .option('--iou <ratio>', 'IoU a detection needs with a truth box to count as found', '0.5')
     .option('--positives <folder>', 'patch level: folder of object patches')
     .option('--negatives <folder>', 'patch level: folder of non-object patches')
-    .option('--json <file>', 'write the full report (curves included) as JSON');
+    .option('--json <file>', 'write the full report (curves included) as JSON')
+    .option('--errors <folder>', 'with --truth: write every false alarm and missed object as a window-sized PNG crop into FOLDER/false-alarms and FOLDER/missed (feed the first to train --negative-patches)');
   addScanOptions(command)
-    .addHelpText('after', '\nExamples:\n  rectboost evaluate model.json --truth scenes/truth.jsonl --json report.json\n  rectboost evaluate model.json --positives patches/rivets --negatives patches/panels\n')
-    .action(async (modelPath: string, options: ScanOptionText & { truth?: string; iou: string; positives?: string; negatives?: string; json?: string }) => {
+    .addHelpText('after', '\nExamples:\n  rectboost evaluate model.json --truth scenes/truth.jsonl --json report.json\n  rectboost evaluate model.json --positives patches/rivets --negatives patches/panels\n  rectboost evaluate model.json --truth scenes/truth.jsonl --errors errors/   then: rectboost train ... --negative-patches errors/false-alarms\n')
+    .action(async (modelPath: string, options: ScanOptionText & { truth?: string; iou: string; positives?: string; negatives?: string; json?: string; errors?: string }) => {
       const iou = parseNumber('--iou', options.iou, 0, 1);
       const parsed = parseScanOptions(options);
       const patchMode = options.positives !== undefined || options.negatives !== undefined;
       if (patchMode === (options.truth !== undefined) || (patchMode && (options.positives === undefined || options.negatives === undefined))) {
         throw new RectboostError('invalid-option', 'evaluate needs either --truth FILE, or both --positives DIR and --negatives DIR.');
+      }
+      if (patchMode && options.errors !== undefined) {
+        throw new RectboostError('invalid-option', '--errors writes the crops of scene detections; use it with --truth FILE.');
       }
       const { detector } = await loadCascadeFile(modelPath);
       let report: unknown;
@@ -85,6 +91,10 @@ export function registerEvaluateCommand(program: Command): void {
         lines.push(`detection rate at 1 / 10 / 100 FP      ${rate(result.detectionRateAtFalsePositives['1'])} / ${rate(result.detectionRateAtFalsePositives['10'])} / ${rate(result.detectionRateAtFalsePositives['100'])}`);
         lines.push(`log-average miss rate (FPPI 0.01–1)     ${rate(result.logAverageMissRate)}`);
         lines.push(`speed  ${(speed.windowsPerSecond / 1e6).toFixed(2)} M windows/s per thread, ${speed.meanFeaturesPerWindow.toFixed(2)} features/window`);
+        if (options.errors !== undefined) {
+          const written = await writeErrorCrops(options.errors, truth.map((t) => t.image), detectionErrors(entries, iou), detector.windowWidth, detector.windowHeight);
+          lines.push(`crops: ${written.falseAlarms} false alarms in ${written.falseAlarmFolder}, ${written.misses} missed objects in ${written.missFolder}`);
+        }
         lines.push(`rejected by stage  ${speed.rejectedAtStageShare.map((s, k) => `${k + 1}:${rate(s)}`).join(' ')}  flat:${rate(speed.flatShare)}  accepted:${(100 * speed.acceptedShare).toPrecision(2)}%`);
       }
       process.stdout.write(`${lines.join('\n')}\n`);
