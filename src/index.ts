@@ -108,7 +108,7 @@ export {
 } from './metrics/match-detections.js';
 export { precisionRecallCurve, averagePrecision, detectionRateAtFalsePositives, type PrecisionRecallCurve } from './metrics/precision-recall.js';
 export { missRateCurve, logAverageMissRate, LOG_AVERAGE_REFERENCE_POINTS, type MissRateCurve } from './metrics/miss-rate.js';
-export { rocCurve, type RocCurve } from './metrics/roc-curve.js';
+export { rocCurve, truePositiveRateAt, type RocCurve } from './metrics/roc-curve.js';
 export {
   exportRuntimeCascade,
   runtimeFileFromDetector,

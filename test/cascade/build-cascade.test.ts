@@ -122,7 +122,7 @@ describe('cascade training with negative patches and augmented positives (genera
     const cap = Math.floor(400 * 0.25); // 100 of the 400 negatives
     result.stages.forEach((stage, k) => {
       // Brute-force twin: count the patches that the first k stages accept (all of them before stage 1).
-      const passed = stagesPassed({ window: { width: SIDE, height: SIDE }, stages: result.stages.slice(0, k) }, packWindowSamples(lookAlikes, SIDE, SIDE));
+      const passed = stagesPassed({ stages: result.stages.slice(0, k) }, packWindowSamples(lookAlikes, SIDE, SIDE));
       const accepted = k === 0 ? lookAlikes.length : Array.from(passed).filter((p) => p === k).length;
       expect(stage.training!.negativesFromPatches).toBe(Math.min(cap, accepted));
       expect(result.reports[k]!.negativesFromPatches).toBe(Math.min(cap, accepted));

@@ -99,8 +99,15 @@ describeWithReferenceData('Fashion-MNIST shirt against its look-alikes: negative
       memoryBytes: 30e6,
       pool,
     };
-    plain = await trainCascade(options);
-    withConfusers = await trainCascade({ ...options, negativePatches: confusers });
+    const times: number[] = [];
+    const timed = async (run: Promise<CascadeTrainingResult>): Promise<CascadeTrainingResult> => {
+      const start = performance.now();
+      const result = await run;
+      times.push((performance.now() - start) / 1000);
+      return result;
+    };
+    plain = await timed(trainCascade(options));
+    withConfusers = await timed(trainCascade({ ...options, negativePatches: confusers }));
 
     // The feedback loop: the false alarms of the plain cascade on a first set of test scenes
     // (test items 0–767), cropped as `evaluate --errors` crops them, become negative patches;
@@ -111,7 +118,7 @@ describeWithReferenceData('Fashion-MNIST shirt against its look-alikes: negative
       .map((error) => cropBoxToWindow(testScenes[error.image]!.image, error.box, FASHION_SIDE, FASHION_SIDE))
       .filter((window): window is GrayImage => window !== undefined);
     fedBackCount = falseAlarms.length;
-    withFalseAlarms = await trainCascade({ ...options, negativePatches: falseAlarms });
+    withFalseAlarms = await timed(trainCascade({ ...options, negativePatches: falseAlarms }));
     const second = testScenes.slice(SCENES_PER_SET);
     secondScenesPlain = evaluateDetections(detectScenes(plain, second), 0.5);
     secondScenesFedBack = evaluateDetections(detectScenes(withFalseAlarms, second), 0.5);
@@ -123,9 +130,10 @@ describeWithReferenceData('Fashion-MNIST shirt against its look-alikes: negative
       `fashion-mnist shirt vs look-alikes (${((performance.now() - started) / 1000).toFixed(1)} s): ${describe('backgrounds only', plain)}; ` +
         `${describe('with 600 confuser patches', withConfusers)}; ${describe(`with ${fedBackCount} fed-back false alarms`, withFalseAlarms)}; ` +
         `second scenes: false alarms ${secondScenesPlain.detectionCount - secondScenesPlain.truePositives} → ${secondScenesFedBack.detectionCount - secondScenesFedBack.truePositives}, ` +
-        `found ${secondScenesPlain.truePositives} → ${secondScenesFedBack.truePositives} of ${secondScenesPlain.truthCount}, AP ${secondScenesPlain.averagePrecision.toFixed(4)} → ${secondScenesFedBack.averagePrecision.toFixed(4)}`,
+        `found ${secondScenesPlain.truePositives} → ${secondScenesFedBack.truePositives} of ${secondScenesPlain.truthCount}, AP ${secondScenesPlain.averagePrecision.toFixed(4)} → ${secondScenesFedBack.averagePrecision.toFixed(4)}; ` +
+        `training times ${times.map((t) => t.toFixed(1)).join(' / ')} s`,
     );
-  });
+  }, 900_000);
 
   afterAll(async () => {
     await pool?.close();
