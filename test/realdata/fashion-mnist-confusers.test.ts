@@ -90,13 +90,14 @@ describeWithReferenceData('Fashion-MNIST shirt against its look-alikes: negative
       stageFalsePositiveRate: 0.5,
       targetFalsePositiveRate: 1e-4,
       maxStages: 10,
-      maxWeakClassifiers: 30,
+      maxWeakClassifiers: 40,
       negativesPerStage: 1000,
       booster: 'gentle',
       mirror: false,
       validationShare: 0.3,
       seed: 11,
       memoryBytes: 30e6,
+      stopWhenStalled: false,
       pool,
     };
     const times: number[] = [];
