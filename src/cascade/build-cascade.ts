@@ -42,7 +42,10 @@ export interface CascadeTrainingOptions {
    * alarms of an earlier run. Every stage takes those the cascade so far still accepts as
    * negatives, up to `negativePatchShare` of `negativesPerStage` (a seeded sample when more
    * are accepted), and mines the rest from the backgrounds. They get the same initial
-   * weight as mined negatives. Default none.
+   * weight as mined negatives, and form their own group for the stage's false-positive
+   * target: a stage must let through at most stageFalsePositiveRate of the patches it was given
+   * and of the mined windows alike (trainStage's leadingNegatives), else the easy background
+   * windows would meet the target alone and the patches would pass stage after stage. Default none.
    */
   readonly negativePatches?: readonly GrayImage[];
   /** Largest share of a stage's negatives taken from `negativePatches`, in [0, 1] (default DEFAULT_NEGATIVE_PATCH_SHARE). */
@@ -237,7 +240,9 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
       stop();
       onMining(mined.negatives.length, mined.windowsScanned);
       const negatives = [...fromPatches, ...mined.negatives];
-      if (negatives.length < Math.max(1, Math.ceil(wanted * MIN_NEGATIVE_SHARE))) {
+      // Negative patches the cascade still accepts are worth a stage of their own even when the
+      // backgrounds run dry: they are the errors the user asked to remove.
+      if (fromPatches.length === 0 && negatives.length < Math.max(1, Math.ceil(wanted * MIN_NEGATIVE_SHARE))) {
         return finish(
           'backgrounds-exhausted',
           `Stopped: the backgrounds hold only ${mined.negatives.length} windows that the ${stageIndex}-stage cascade still accepts ` +
@@ -251,6 +256,7 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
         features,
         positives: packWindowSamples(trainingKept, windowWidth, windowHeight),
         negatives: packWindowSamples(negatives, windowWidth, windowHeight),
+        leadingNegatives: fromPatches.length,
         validationPositives: packWindowSamples(validationKept, windowWidth, windowHeight),
         booster: options.booster,
         minDetectionRate: options.stageDetectionRate,
