@@ -129,9 +129,10 @@ const MIN_NEGATIVE_SHARE = 0.5;
 
 /**
  * Default largest share of a stage's negatives taken from negative patches: half. Up to half
- * keeps the backgrounds teaching what the patches do not show (the false-positive target is
- * about background windows), while a few hundred confusers still weigh as much as all the
- * easy windows together. Chosen by the shirt-against-look-alikes measurement in the README.
+ * keeps the backgrounds teaching what the patches do not show (the overall false-positive
+ * target is about background windows), while a few hundred confusers still weigh as much as
+ * all the easy windows together. A reasoned choice: the README's accuracy table measures it
+ * against no patches, not yet against other shares.
  */
 export const DEFAULT_NEGATIVE_PATCH_SHARE = 0.5;
 
@@ -140,10 +141,11 @@ export const DEFAULT_NEGATIVE_PATCH_SHARE = 0.5;
  * boosted until it keeps `stageDetectionRate` of the validation positives while
  * letting through at most `stageFalsePositiveRate` of its negatives. Stage 1's
  * negatives are drawn uniformly from all background windows; every later stage's
- * are background windows that the cascade so far still accepts. Training stops
+ * are background windows that the cascade so far still accepts, beside the given
+ * negative patches it still accepts (see `negativePatches`). Training stops
  * when the product of stage rates reaches the target, at `maxStages`, or when the
- * backgrounds cannot supply enough windows that the cascade accepts (success: the
- * data can show no more).
+ * backgrounds cannot supply enough windows that the cascade accepts and no negative
+ * patch is still accepted (success: the data can show no more).
  *
  * It also stops, keeping what it has, when a stage stalls (see `stopWhenStalled`) and
  * when `shouldStop()` turns true (stop reason `interrupted`: the finished stages are
@@ -246,8 +248,7 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
         return finish(
           'backgrounds-exhausted',
           `Stopped: the backgrounds hold only ${mined.negatives.length} windows that the ${stageIndex}-stage cascade still accepts ` +
-            `(${mined.windowsScanned} scanned, ${backgroundWanted} wanted${fromPatches.length > 0 ? `, beside ${fromPatches.length} negative patches` : ''}); ` +
-            'the cascade has met what these backgrounds can show.',
+            `(${mined.windowsScanned} scanned, ${backgroundWanted} wanted); the cascade has met what these backgrounds can show.`,
         );
       }
 
