@@ -11,6 +11,8 @@ for (const file of files) {
   if (wanted.length > 0 && !wanted.includes(name)) continue;
   const section = await import(`./bench/${file}`);
   if (section.onlyWith && !flags.includes(section.onlyWith)) continue;
+  // Long sections (e.g. accuracy, which trains cascades) run only when asked for by name.
+  if (section.onlyWhenNamed && !wanted.includes(name)) continue;
   console.log(`\n== ${section.title} (${name})`);
   await section.run(flags);
 }

@@ -7,11 +7,20 @@ export { RectboostError, isRectboostError, type RectboostErrorCode } from './err
 export {
   createGrayImage,
   cropGrayImage,
+  cropBoxToWindow,
   mirrorGrayImage,
   resizeGrayImage,
   DEFAULT_MAX_PIXELS,
   type GrayImage,
 } from './image/gray-image.js';
+export {
+  augmentWindows,
+  applyAugmentation,
+  drawAugmentation,
+  DEFAULT_AUGMENTATION,
+  type AugmentationLimits,
+  type AugmentationDraw,
+} from './image/augment-window.js';
 export { computeIntegralImage, rectangleSum, type IntegralImage } from './image/integral-image.js';
 export { windowStatistics, windowInverseDeviation, inverseStandardDeviation, FLAT_WINDOW_VARIANCE, type WindowStatistics } from './image/window-statistics.js';
 
@@ -31,6 +40,7 @@ export { packWindowSamples, type WindowSamples } from './features/window-samples
 
 export { decodeGrayImageFile, decodeGrayImageBytes, hasImageExtension, IMAGE_EXTENSIONS, type DecodeOptions } from './io/decode-image.js';
 export { encodeGrayPng, encodeRgbPng, type RgbImage } from './io/encode-image.js';
+export { boxCropPng, writeErrorCrops, ERROR_CROP_FOLDERS, type WrittenErrorCrops } from './io/box-crops.js';
 export { writeFileAtomic } from './io/atomic-write.js';
 export { listImageFiles, listImageFilesOfAll } from './data/list-images.js';
 
@@ -88,10 +98,18 @@ export {
 } from './detect/scan-image.js';
 export { mergeDetections, MERGE_METHODS, DEFAULT_MERGE_OPTIONS, type Detection, type MergeMethod, type MergeOptions } from './detect/merge-detections.js';
 export { intersectionOverUnion, type Box } from './metrics/intersection-over-union.js';
-export { matchDetections, type ImageDetectionsAndTruth, type MatchedDetection, type MatchResult } from './metrics/match-detections.js';
+export {
+  matchDetections,
+  detectionErrors,
+  type ImageDetectionsAndTruth,
+  type MatchedDetection,
+  type MatchResult,
+  type DetectionError,
+  type DetectionErrors,
+} from './metrics/match-detections.js';
 export { precisionRecallCurve, averagePrecision, detectionRateAtFalsePositives, type PrecisionRecallCurve } from './metrics/precision-recall.js';
 export { missRateCurve, logAverageMissRate, LOG_AVERAGE_REFERENCE_POINTS, type MissRateCurve } from './metrics/miss-rate.js';
-export { rocCurve, type RocCurve } from './metrics/roc-curve.js';
+export { rocCurve, truePositiveRateAt, type RocCurve } from './metrics/roc-curve.js';
 export {
   exportRuntimeCascade,
   runtimeFileFromDetector,
@@ -139,6 +157,7 @@ export { WindowListEvaluator, acceptSamples, cascadeDepths, stageSampleScores, s
 export { BackgroundWindows, MINING_SCALE_STEP, mineHardNegatives, sampleUniformNegatives, type MiningProgress, type MiningResult } from './cascade/negative-mining.js';
 export {
   trainCascade,
+  DEFAULT_NEGATIVE_PATCH_SHARE,
   heldOutCount,
   resolvableRate,
   formatRate,

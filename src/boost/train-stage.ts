@@ -55,6 +55,14 @@ export interface StageTrainingOptions {
   readonly random: () => number;
   /** Called after each weak classifier is added. */
   readonly onRound?: (round: StageRoundReport) => void;
+  /**
+   * When set, the first `leadingNegatives` negatives (e.g. negative patches) form a group of
+   * their own: the stage is done only when at most maxFalsePositiveRate of that group and at most
+   * maxFalsePositiveRate of the other negatives pass, so that a few hard negatives cannot be
+   * outvoted by many easy ones. Default 0 (one group). The reported falsePositiveRate stays the
+   * share of all negatives that pass.
+   */
+  readonly leadingNegatives?: number;
   /** Initial weights: `balanced` (default, Viola & Jones 2001 Table 1) or `uniform`. */
   readonly initialWeights?: 'balanced' | 'uniform';
   /**
@@ -124,6 +132,7 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
   }
 
   const sampleCount = positives.count + negatives.count;
+  const leading = checkInteger('leading negatives', options.leadingNegatives ?? 0, 0, negatives.count);
   const positiveCount = positives.count;
   const chosen = chooseFeatures(features.length, sampleCount, memoryBytes, options.random);
   const featureCount = chosen.length;
@@ -207,9 +216,12 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
     threshold = thresholdForDetectionRate(validationScores, minDetectionRate);
     detectionRate = passRate(validationScores, threshold);
     falsePositiveRate = passRate(negativeScores, threshold);
+    const targetMet = leading > 0 && leading < negatives.count
+      ? passRate(negativeScores.subarray(0, leading), threshold) <= maxFalsePositiveRate && passRate(negativeScores.subarray(leading), threshold) <= maxFalsePositiveRate
+      : falsePositiveRate <= maxFalsePositiveRate;
     options.onRound?.({ weakClassifiers: weakClassifiers.length, threshold, detectionRate, falsePositiveRate, milliseconds: performance.now() - roundStart });
 
-    if (falsePositiveRate <= maxFalsePositiveRate) {
+    if (targetMet) {
       stoppedBecause = 'targets-met';
       break;
     }

@@ -7,6 +7,7 @@ import { checkInteger, checkNumber, checkOpenInterval, checkThat } from '../chec
 import { RectboostError, isRectboostError } from '../errors.js';
 import { enumerateFeatures } from '../features/enumerate-features.js';
 import { packWindowSamples } from '../features/window-samples.js';
+import { augmentWindows } from '../image/augment-window.js';
 import { mirrorGrayImage, type GrayImage } from '../image/gray-image.js';
 import type { Stage } from './cascade-model.js';
 import { BackgroundWindows, mineHardNegatives, sampleUniformNegatives } from './negative-mining.js';
@@ -38,6 +39,26 @@ export interface CascadeTrainingOptions {
   readonly validationShare: number;
   readonly seed: number;
   readonly memoryBytes: number;
+  /**
+   * Windows to be rejected (windowWidth × windowHeight): confusable objects, or the false
+   * alarms of an earlier run. Every stage takes those the cascade so far still accepts as
+   * negatives, up to `negativePatchShare` of `negativesPerStage` (a seeded sample when more
+   * are accepted), and mines the rest from the backgrounds. They get the same initial
+   * weight as mined negatives, and form their own group for the stage's false-positive
+   * target: a stage must let through at most stageFalsePositiveRate of the patches it was given
+   * and of the mined windows alike (trainStage's leadingNegatives), else the easy background
+   * windows would meet the target alone and the patches would pass stage after stage. Default none.
+   */
+  readonly negativePatches?: readonly GrayImage[];
+  /** Largest share of a stage's negatives taken from `negativePatches`, in [0, 1] (default DEFAULT_NEGATIVE_PATCH_SHARE). */
+  readonly negativePatchShare?: number;
+  /**
+   * Augmented copies of every training positive (seeded shifts, scales, rotations, contrast
+   * and brightness: augmentWindows with DEFAULT_AUGMENTATION), in [0, 100]; default 0.
+   * Only the training side of the validation split is augmented, so stage thresholds are set
+   * on real positives; copies of a training positive never reach validation.
+   */
+  readonly augmentCopies?: number;
   readonly pool?: BoostingPool;
   /** Stages finished by an earlier run (resume); training continues after them. */
   readonly completedStages?: readonly Stage[];
@@ -66,6 +87,8 @@ export interface StageReport {
   /** Product of the false-positive rates of all stages so far (each at least 1/negatives, see resolvableRate). */
   readonly overallFalsePositiveRate: number;
   readonly negatives: number;
+  /** How many of `negatives` came from the negative patches (the rest were mined from backgrounds). */
+  readonly negativesFromPatches: number;
   readonly windowsScanned: number;
   readonly seconds: number;
   readonly stoppedBecause: NonNullable<Stage['training']>['stoppedBecause'];
@@ -115,14 +138,24 @@ export interface CascadeTrainingResult {
 const MIN_NEGATIVE_SHARE = 0.5;
 
 /**
+ * Default largest share of a stage's negatives taken from negative patches: half. Up to half
+ * keeps the backgrounds teaching what the patches do not show (the overall false-positive
+ * target is about background windows), while a few hundred confusers still weigh as much as
+ * all the easy windows together. A reasoned choice: the README's accuracy table measures it
+ * against no patches, not yet against other shares.
+ */
+export const DEFAULT_NEGATIVE_PATCH_SHARE = 0.5;
+
+/**
  * Trains a cascade (Viola & Jones 2001 §5, Table 2): stage after stage, each
  * boosted until it keeps `stageDetectionRate` of the validation positives while
  * letting through at most `stageFalsePositiveRate` of its negatives. Stage 1's
  * negatives are drawn uniformly from all background windows; every later stage's
- * are background windows that the cascade so far still accepts. Training stops
+ * are background windows that the cascade so far still accepts, beside the given
+ * negative patches it still accepts (see `negativePatches`). Training stops
  * when the product of stage rates reaches the target, at `maxStages`, or when the
- * backgrounds cannot supply enough windows that the cascade accepts (success: the
- * data can show no more).
+ * backgrounds cannot supply enough windows that the cascade accepts and no negative
+ * patch is still accepted (success: the data can show no more).
  *
  * It also stops, keeping what it has, when a stage stalls (see `stopWhenStalled`) and
  * when `shouldStop()` turns true (stop reason `interrupted`: the finished stages are
@@ -143,6 +176,12 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
   checkInteger('maximum weak classifiers', options.maxWeakClassifiers, 1, 10_000);
   checkInteger('negatives per stage', options.negativesPerStage, 1, 10_000_000);
   checkNumber('validation share', options.validationShare, 0, 0.9);
+  const patchShare = checkNumber('negative patch share', options.negativePatchShare ?? DEFAULT_NEGATIVE_PATCH_SHARE, 0, 1);
+  const negativePatches = options.negativePatches ?? [];
+  checkThat(
+    negativePatches.every((patch) => patch.width === windowWidth && patch.height === windowHeight),
+    `Negative patches must be ${windowWidth}×${windowHeight} windows; resize them to the window first (loadPositiveWindows does).`,
+  );
   checkThat(options.backgrounds.length > 0, 'Training needs at least one background image.');
 
   const { training, validation } = splitPositives(options);
@@ -212,25 +251,31 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
       const miningRandom = seedrandom(`${options.seed}:mining:${stageIndex}`);
       const wanted = options.negativesPerStage;
       const onMining = (found: number, scanned: number): void => options.onEvent?.({ phase: 'mining', stageIndex, found, wanted, scanned });
+      const fromPatches = stillAcceptedPatches(negativePatches, cascadeSoFar, Math.floor(wanted * patchShare), seedrandom(`${options.seed}:patches:${stageIndex}`));
+      const backgroundWanted = wanted - fromPatches.length;
       const mined = stageIndex === 0
-        ? sampleUniformNegatives(backgrounds, wanted, miningRandom)
-        : mineHardNegatives(backgrounds, cascadeSoFar, wanted, miningRandom, onMining, options.shouldStop);
+        ? sampleUniformNegatives(backgrounds, backgroundWanted, miningRandom)
+        : mineHardNegatives(backgrounds, cascadeSoFar, backgroundWanted, miningRandom, onMining, options.shouldStop);
       const miningSeconds = (performance.now() - miningStart) / 1000;
       stop();
       onMining(mined.negatives.length, mined.windowsScanned);
-      if (mined.negatives.length < Math.max(1, Math.ceil(wanted * MIN_NEGATIVE_SHARE))) {
+      const negatives = [...fromPatches, ...mined.negatives];
+      // Negative patches the cascade still accepts are worth a stage of their own even when the
+      // backgrounds run dry: they are the errors the user asked to remove.
+      if (fromPatches.length === 0 && negatives.length < Math.max(1, Math.ceil(wanted * MIN_NEGATIVE_SHARE))) {
         return finish(
           'backgrounds-exhausted',
           `Stopped: the backgrounds hold only ${mined.negatives.length} windows that the ${stageIndex}-stage cascade still accepts ` +
-            `(${mined.windowsScanned} scanned, ${wanted} wanted); the cascade has met what these backgrounds can show.`,
+            `(${mined.windowsScanned} scanned, ${backgroundWanted} wanted); the cascade has met what these backgrounds can show.`,
         );
       }
 
-      options.onEvent?.({ phase: 'responses', stageIndex, features: features.length, samples: trainingKept.length + mined.negatives.length });
+      options.onEvent?.({ phase: 'responses', stageIndex, features: features.length, samples: trainingKept.length + negatives.length });
       const result = await trainStage({
         features,
         positives: packWindowSamples(trainingKept, windowWidth, windowHeight),
-        negatives: packWindowSamples(mined.negatives, windowWidth, windowHeight),
+        negatives: packWindowSamples(negatives, windowWidth, windowHeight),
+        leadingNegatives: fromPatches.length,
         validationPositives: packWindowSamples(validationKept, windowWidth, windowHeight),
         booster: options.booster,
         minDetectionRate: options.stageDetectionRate,
@@ -267,7 +312,8 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
           detectionRate: result.detectionRate,
           falsePositiveRate: result.falsePositiveRate,
           positives: trainingKept.length,
-          negatives: mined.negatives.length,
+          negatives: negatives.length,
+          negativesFromPatches: fromPatches.length,
           windowsScanned: mined.windowsScanned,
           featuresUsed: result.featuresUsed,
           stoppedBecause: result.stoppedBecause,
@@ -337,6 +383,7 @@ function reportOfRecordedStage(stage: Stage, stageIndex: number, stages: readonl
     falsePositiveRate: record?.falsePositiveRate ?? 1,
     overallFalsePositiveRate: overall,
     negatives: record?.negatives ?? 0,
+    negativesFromPatches: record?.negativesFromPatches ?? 0,
     windowsScanned: record?.windowsScanned ?? 0,
     seconds: 0,
     stoppedBecause: record?.stoppedBecause ?? 'targets-met',
@@ -359,7 +406,10 @@ export function heldOutCount(count: number, validationShare: number): number {
   return validationShare === 0 ? 0 : Math.max(1, Math.round(count * validationShare));
 }
 
-/** Seeded split of positives into training and validation; mirrored copies follow their source. */
+/**
+ * Seeded split of positives into training and validation; mirrored copies follow their
+ * source, and augmented copies (of training positives and their mirror images) stay in training.
+ */
 function splitPositives(options: CascadeTrainingOptions): { training: GrayImage[]; validation: GrayImage[] } {
   const count = options.positives.length;
   const order = Array.from({ length: count }, (_, i) => i);
@@ -373,11 +423,32 @@ function splitPositives(options: CascadeTrainingOptions): { training: GrayImage[
     const originals = indices.map((i) => options.positives[i]!);
     return options.mirror ? [...originals, ...originals.map(mirrorGrayImage)] : originals;
   };
-  return { validation: expand(order.slice(0, held)), training: expand(order.slice(held)) };
+  const training = expand(order.slice(held));
+  const augmented = augmentWindows(training, options.augmentCopies ?? 0, seedrandom(`${options.seed}:augment`));
+  return { validation: expand(order.slice(0, held)), training: [...training, ...augmented] };
 }
 
+/**
+ * The negative patches that the cascade so far still accepts (all of them before stage 1),
+ * at most `limit`: when more are accepted, a seeded sample of `limit` in their input order.
+ */
+function stillAcceptedPatches(patches: readonly GrayImage[], cascade: CascadeSoFar, limit: number, random: () => number): GrayImage[] {
+  if (patches.length === 0 || limit <= 0) return [];
+  const accepted = keepAccepted(patches, cascade, cascade.window.width, cascade.window.height);
+  if (accepted.length <= limit) return accepted;
+  // Partial Fisher–Yates over indices, then input order, so the sample does not depend on accepted order quirks.
+  const indices = Array.from({ length: accepted.length }, (_, i) => i);
+  for (let i = 0; i < limit; i++) {
+    const j = i + Math.floor(random() * (indices.length - i));
+    [indices[i], indices[j]] = [indices[j]!, indices[i]!];
+  }
+  return indices.slice(0, limit).sort((a, b) => a - b).map((i) => accepted[i]!);
+}
+
+type CascadeSoFar = { stages: readonly Stage[]; window: { width: number; height: number } };
+
 /** The windows the cascade so far accepts (scan kernel; flat windows never, as in detection). */
-function keepAccepted(windows: readonly GrayImage[], cascade: { stages: readonly Stage[]; window: { width: number; height: number } }, width: number, height: number): GrayImage[] {
+function keepAccepted(windows: readonly GrayImage[], cascade: CascadeSoFar, width: number, height: number): GrayImage[] {
   const accepted = acceptSamples(detectorCascadeFromModel(cascade), packWindowSamples(windows, width, height));
   return windows.filter((_, i) => accepted[i] === 1);
 }

@@ -90,6 +90,7 @@ function orderedStageRecord(record: StageTrainingRecord): object {
     falsePositiveRate: record.falsePositiveRate,
     positives: record.positives,
     negatives: record.negatives,
+    ...(record.negativesFromPatches === undefined ? {} : { negativesFromPatches: record.negativesFromPatches }),
     windowsScanned: record.windowsScanned,
     featuresUsed: record.featuresUsed,
     stoppedBecause: record.stoppedBecause,
@@ -109,6 +110,8 @@ function orderedProvenance(training: TrainingProvenance): object {
       backgroundImages: training.data.backgroundImages,
       positivesHash: training.data.positivesHash,
       backgroundsHash: training.data.backgroundsHash,
+      ...(training.data.negativePatches === undefined ? {} : { negativePatches: training.data.negativePatches }),
+      ...(training.data.negativePatchesHash === undefined ? {} : { negativePatchesHash: training.data.negativePatchesHash }),
     },
     stopReason: training.stopReason,
     ...(training.timing === undefined
@@ -219,7 +222,7 @@ function parseWeak(v: ModelValidator, raw: unknown, path: string, width: number,
 }
 
 function parseStageRecord(v: ModelValidator, raw: unknown, path: string): StageTrainingRecord {
-  const record = v.object(raw, path, ['detectionRate', 'falsePositiveRate', 'positives', 'negatives', 'windowsScanned', 'featuresUsed', 'stoppedBecause'], []);
+  const record = v.object(raw, path, ['detectionRate', 'falsePositiveRate', 'positives', 'negatives', 'windowsScanned', 'featuresUsed', 'stoppedBecause'], ['negativesFromPatches']);
   if (!(STOP_REASONS as readonly unknown[]).includes(record.stoppedBecause)) {
     v.fail(`${path}.stoppedBecause`, `must be one of ${STOP_REASONS.join(', ')}`);
   }
@@ -228,6 +231,9 @@ function parseStageRecord(v: ModelValidator, raw: unknown, path: string): StageT
     falsePositiveRate: v.numberIn(record.falsePositiveRate, `${path}.falsePositiveRate`, 0, 1),
     positives: v.integer(record.positives, `${path}.positives`, 0, Number.MAX_SAFE_INTEGER),
     negatives: v.integer(record.negatives, `${path}.negatives`, 0, Number.MAX_SAFE_INTEGER),
+    ...(record.negativesFromPatches === undefined
+      ? {}
+      : { negativesFromPatches: v.integer(record.negativesFromPatches, `${path}.negativesFromPatches`, 0, v.integer(record.negatives, `${path}.negatives`, 0, Number.MAX_SAFE_INTEGER)) }),
     windowsScanned: v.integer(record.windowsScanned, `${path}.windowsScanned`, 0, Number.MAX_SAFE_INTEGER),
     featuresUsed: v.integer(record.featuresUsed, `${path}.featuresUsed`, 0, Number.MAX_SAFE_INTEGER),
     stoppedBecause: record.stoppedBecause as StageTrainingRecord['stoppedBecause'],
@@ -242,7 +248,7 @@ function parseProvenance(v: ModelValidator, raw: unknown): TrainingProvenance {
     if (value !== null && typeof value !== 'string' && typeof value !== 'boolean') v.number(value, `training.options.${key}`);
     options[key] = value as string | number | boolean | null;
   }
-  const data = v.object(t.data, 'training.data', ['positives', 'validationPositives', 'backgroundImages', 'positivesHash', 'backgroundsHash'], []);
+  const data = v.object(t.data, 'training.data', ['positives', 'validationPositives', 'backgroundImages', 'positivesHash', 'backgroundsHash'], ['negativePatches', 'negativePatchesHash']);
   const provenance: TrainingProvenance = {
     tool: v.string(t.tool, 'training.tool'),
     seed: v.integer(t.seed, 'training.seed', 0, Number.MAX_SAFE_INTEGER),
@@ -253,6 +259,8 @@ function parseProvenance(v: ModelValidator, raw: unknown): TrainingProvenance {
       backgroundImages: v.integer(data.backgroundImages, 'training.data.backgroundImages', 0, Number.MAX_SAFE_INTEGER),
       positivesHash: v.string(data.positivesHash, 'training.data.positivesHash'),
       backgroundsHash: v.string(data.backgroundsHash, 'training.data.backgroundsHash'),
+      ...(data.negativePatches === undefined ? {} : { negativePatches: v.integer(data.negativePatches, 'training.data.negativePatches', 0, Number.MAX_SAFE_INTEGER) }),
+      ...(data.negativePatchesHash === undefined ? {} : { negativePatchesHash: v.string(data.negativePatchesHash, 'training.data.negativePatchesHash') }),
     },
     stopReason: v.string(t.stopReason, 'training.stopReason'),
   };

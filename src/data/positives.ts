@@ -3,7 +3,7 @@ import { RectboostError } from '../errors.js';
 import { readFile } from 'node:fs/promises';
 import { createHash } from 'node:crypto';
 import { dirname } from 'node:path';
-import { cropGrayImage, mirrorGrayImage, resizeGrayImage, type GrayImage } from '../image/gray-image.js';
+import { cropBoxToWindow, mirrorGrayImage, resizeGrayImage, type GrayImage } from '../image/gray-image.js';
 import { loadAnnotations } from './annotations.js';
 import { listImageFiles } from './list-images.js';
 import { readImagesChecked, refuseBadImages, type CheckedImages } from './read-images.js';
@@ -51,14 +51,11 @@ async function loadAnnotatedPositives(path: string, options: PositiveLoadOptions
   for (const entry of annotated) {
     const image = byFile.get(entry.image);
     if (image === undefined) continue;
-    for (const [x, y, width, height] of entry.boxes) {
-      const left = Math.max(0, Math.round(x));
-      const top = Math.max(0, Math.round(y));
-      const right = Math.min(image.width, Math.round(x + width));
-      const bottom = Math.min(image.height, Math.round(y + height));
-      if (right - left < 1 || bottom - top < 1) continue;
-      windows.push(resizeGrayImage(cropGrayImage(image, left, top, right - left, bottom - top), options.windowWidth, options.windowHeight));
-      sources.push(`${entry.image} [${x}, ${y}, ${width}, ${height}]`);
+    for (const box of entry.boxes) {
+      const window = cropBoxToWindow(image, box, options.windowWidth, options.windowHeight);
+      if (window === undefined) continue;
+      windows.push(window);
+      sources.push(`${entry.image} [${box.join(', ')}]`);
     }
   }
   if (windows.length === 0) throw new RectboostError('bad-data', `Annotation file ${path} has no boxes inside its images.`);

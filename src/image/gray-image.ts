@@ -53,6 +53,29 @@ export function cropGrayImage(image: GrayImage, x: number, y: number, width: num
   return { width, height, data: out };
 }
 
+/**
+ * The box [x, y, width, height] of `image` (any real numbers, e.g. a detection or an
+ * annotation) as a `windowWidth` × `windowHeight` patch: edges rounded to whole pixels,
+ * clipped to the image, then resized (resizeGrayImage). Undefined when less than one
+ * pixel of the box lies inside the image. Used for annotated positives and for the crops
+ * of false alarms and missed objects, so both frame a box the same way.
+ * @example cropBoxToWindow(scene, [10.4, 20.6, 33, 33], 24, 24)
+ */
+export function cropBoxToWindow(
+  image: GrayImage,
+  box: readonly [number, number, number, number],
+  windowWidth: number,
+  windowHeight: number,
+): GrayImage | undefined {
+  const [x, y, width, height] = box;
+  const left = Math.max(0, Math.round(x));
+  const top = Math.max(0, Math.round(y));
+  const right = Math.min(image.width, Math.round(x + width));
+  const bottom = Math.min(image.height, Math.round(y + height));
+  if (!(right - left >= 1 && bottom - top >= 1)) return undefined;
+  return resizeGrayImage(cropGrayImage(image, left, top, right - left, bottom - top), windowWidth, windowHeight);
+}
+
 /** A new image mirrored left to right. */
 export function mirrorGrayImage(image: GrayImage): GrayImage {
   const { width, height, data } = image;

@@ -1,6 +1,6 @@
 import { availableParallelism } from 'node:os';
 import type { BoosterKind } from '../boost/booster.js';
-import { heldOutCount, trainCascade, type CascadeTrainingResult, type TrainingEvent } from '../cascade/build-cascade.js';
+import { DEFAULT_NEGATIVE_PATCH_SHARE, heldOutCount, trainCascade, type CascadeTrainingResult, type TrainingEvent } from '../cascade/build-cascade.js';
 import { newCascadeModel, type CascadeModel, type Stage } from '../cascade/cascade-model.js';
 import { loadBackgroundImages } from '../data/backgrounds.js';
 import { loadPositiveWindows } from '../data/positives.js';
@@ -49,6 +49,18 @@ export interface TrainModelOptions {
   readonly recordTiming?: boolean;
   /** Go on after a stage that stalls at maxWeakClassifiers (default false: stop there and keep the model). */
   readonly keepGoing?: boolean;
+  /**
+   * A folder of windows to be rejected (any size; converted to gray and resized to the window):
+   * confusable objects, or the false-alarms folder that `rectboost evaluate --errors` writes.
+   * Every stage takes those its cascade still accepts, up to `negativePatchShare` of its
+   * negatives (see trainCascade). Its content hash is part of the provenance and of the
+   * checkpoint fingerprint.
+   */
+  readonly negativePatches?: string;
+  /** Largest share of a stage's negatives taken from the negative patches (default DEFAULT_NEGATIVE_PATCH_SHARE = 0.5). */
+  readonly negativePatchShare?: number;
+  /** Augmented copies of every training positive (default 0; see trainCascade's augmentCopies). */
+  readonly augmentCopies?: number;
   /** Train on the first N positives only. */
   readonly positiveLimit?: number;
   /** Name of the program, recorded in the provenance (default TOOL_NAME). */
@@ -61,9 +73,9 @@ export interface TrainModelOptions {
 /** Progress of a training run: reading and checking the data, then the cascade's own events. */
 export type TrainModelEvent =
   | TrainingEvent
-  | { readonly phase: 'reading'; readonly what: 'positives' | 'backgrounds'; readonly done: number; readonly total: number }
+  | { readonly phase: 'reading'; readonly what: 'positives' | 'backgrounds' | 'negative patches'; readonly done: number; readonly total: number }
   | { readonly phase: 'skipped'; readonly line: string }
-  | { readonly phase: 'data'; readonly positives: number; readonly backgroundImages: number; readonly workers: number }
+  | { readonly phase: 'data'; readonly positives: number; readonly backgroundImages: number; readonly negativePatches: number; readonly workers: number }
   | { readonly phase: 'resumed'; readonly stages: number; readonly checkpointDirectory: string }
   | { readonly phase: 'no-checkpoint'; readonly checkpointDirectory: string };
 
@@ -120,13 +132,24 @@ export async function trainModel(options: TrainModelOptions): Promise<TrainedMod
     skipBad,
     onProgress: (done, total) => emit({ phase: 'reading', what: 'backgrounds', done, total }),
   });
-  for (const line of [...positives.skipped, ...backgrounds.skipped]) emit({ phase: 'skipped', line: line.trim() });
+  const patches = options.negativePatches === undefined
+    ? undefined
+    : await loadPositiveWindows(options.negativePatches, {
+      windowWidth: window.width,
+      windowHeight: window.height,
+      mirror: false,
+      skipBad,
+      onProgress: (done, total) => emit({ phase: 'reading', what: 'negative patches', done, total }),
+    });
+  const patchShare = options.negativePatchShare ?? DEFAULT_NEGATIVE_PATCH_SHARE;
+  const augmentCopies = options.augmentCopies ?? 0;
+  for (const line of [...positives.skipped, ...backgrounds.skipped, ...(patches?.skipped ?? [])]) emit({ phase: 'skipped', line: line.trim() });
   const positiveWindows = options.positiveLimit === undefined ? positives.windows : positives.windows.slice(0, options.positiveLimit);
   const minimumPositives = options.validationShare > 0 ? 3 : 2;
   if (positiveWindows.length < minimumPositives) {
     throw new RectboostError('bad-data', `Training needs at least ${minimumPositives} positive patches; ${options.positives} has ${positiveWindows.length}.`);
   }
-  emit({ phase: 'data', positives: positiveWindows.length, backgroundImages: backgrounds.images.length, workers });
+  emit({ phase: 'data', positives: positiveWindows.length, backgroundImages: backgrounds.images.length, negativePatches: patches?.windows.length ?? 0, workers });
 
   // 2. Provenance and the fingerprint a checkpoint must match.
   const recorded = {
@@ -144,8 +167,16 @@ export async function trainModel(options: TrainModelOptions): Promise<TrainedMod
     memory: options.memoryBytes,
     ...(options.keepGoing === true ? { keepGoing: true } : {}),
     ...(options.positiveLimit === undefined ? {} : { positiveLimit: options.positiveLimit }),
+    ...(patches === undefined ? {} : { negativePatchShare: patchShare }),
+    ...(augmentCopies === 0 ? {} : { augment: augmentCopies }),
   };
-  const fingerprint: TrainingFingerprint = { ...recorded, seed: options.seed, positivesHash: positives.contentHash, backgroundsHash: backgrounds.contentHash };
+  const fingerprint: TrainingFingerprint = {
+    ...recorded,
+    seed: options.seed,
+    positivesHash: positives.contentHash,
+    backgroundsHash: backgrounds.contentHash,
+    ...(patches === undefined ? {} : { negativePatchesHash: patches.contentHash }),
+  };
   let completedStages: readonly Stage[] = [];
   const stageSeconds: number[] = [];
   if (options.resume === true) {
@@ -173,6 +204,7 @@ export async function trainModel(options: TrainModelOptions): Promise<TrainedMod
           backgroundImages: backgrounds.images.length,
           positivesHash: positives.contentHash,
           backgroundsHash: backgrounds.contentHash,
+          ...(patches === undefined ? {} : { negativePatches: patches.windows.length, negativePatchesHash: patches.contentHash }),
         },
         stopReason,
         ...(options.recordTiming === false
@@ -201,6 +233,8 @@ export async function trainModel(options: TrainModelOptions): Promise<TrainedMod
       validationShare: options.validationShare,
       seed: options.seed,
       memoryBytes: options.memoryBytes,
+      ...(patches === undefined ? {} : { negativePatches: patches.windows, negativePatchShare: patchShare }),
+      augmentCopies,
       stopWhenStalled: options.keepGoing !== true,
       pool,
       completedStages,

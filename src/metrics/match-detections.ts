@@ -10,10 +10,12 @@ export interface ImageDetectionsAndTruth {
 /** One detection after matching: its score and whether it matched a truth box. */
 export interface MatchedDetection {
   readonly image: number;
-  /** Index of the detection in its image's list. */
-  readonly detection: number;
+  /** Position of the detection in its image's list. */
+  readonly index: number;
   readonly score: number;
   readonly truePositive: boolean;
+  /** Index of the truth box it matched (true positives), or −1. */
+  readonly truthIndex: number;
 }
 
 /** All detections of a data set, sorted by score (highest first), with the truth count. */
@@ -55,8 +57,47 @@ export function matchDetections(images: readonly ImageDetectionsAndTruth[], iouT
     });
     const truePositive = best >= 0 && bestOverlap >= iouThreshold && taken[image]![best] === 0;
     if (truePositive) taken[image]![best] = 1;
-    return { image, detection: index, score, truePositive };
+    return { image, index, score, truePositive, truthIndex: truePositive ? best : -1 };
   });
   const missedTruth = taken.map((flags) => Array.from(flags.keys()).filter((t) => flags[t] === 0));
   return { detections, missedTruth, truthCount: images.reduce((n, entry) => n + entry.truth.length, 0), imageCount: images.length };
+}
+
+/** A detection that matched no truth box, or a truth box that no detection matched. */
+export interface DetectionError {
+  readonly image: number;
+  /** Index in the image's detections (false alarms) or truth boxes (misses). */
+  readonly index: number;
+  readonly box: Box;
+  /** The detection's score; undefined for a missed object. */
+  readonly score?: number;
+}
+
+/** The errors of a data set under VOC matching (matchDetections). */
+export interface DetectionErrors {
+  /** False alarms, highest score first (duplicates of a found object included, as VOC counts them). */
+  readonly falseAlarms: readonly DetectionError[];
+  /** Missed objects, by image and then truth order. */
+  readonly misses: readonly DetectionError[];
+}
+
+/**
+ * The false alarms and missed objects of a data set, as matchDetections decides them: what
+ * `rectboost evaluate --errors` writes as crops, to be fed back as negative patches.
+ * @param iouThreshold default 0.5, range [0, 1].
+ * @example detectionErrors([{ detections: [{ box: [0, 0, 24, 24], score: 1 }], truth: [] }]).falseAlarms.length // 1
+ */
+export function detectionErrors(images: readonly ImageDetectionsAndTruth[], iouThreshold = 0.5): DetectionErrors {
+  const match = matchDetections(images, iouThreshold);
+  const found = images.map((entry) => new Uint8Array(entry.truth.length));
+  const falseAlarms: DetectionError[] = [];
+  for (const detection of match.detections) {
+    if (detection.truePositive) found[detection.image]![detection.truthIndex] = 1;
+    else falseAlarms.push({ image: detection.image, index: detection.index, box: images[detection.image]!.detections[detection.index]!.box, score: detection.score });
+  }
+  const misses: DetectionError[] = [];
+  images.forEach((entry, image) => entry.truth.forEach((box, index) => {
+    if (found[image]![index] === 0) misses.push({ image, index, box });
+  }));
+  return { falseAlarms, misses };
 }

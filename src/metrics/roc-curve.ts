@@ -39,3 +39,18 @@ export function rocCurve(positiveScores: ArrayLike<number>, negativeScores: Arra
   for (let i = 1; i < tpr.length; i++) area += ((fpr[i]! - fpr[i - 1]!) * (tpr[i]! + tpr[i - 1]!)) / 2;
   return { thresholds: Float64Array.from(thresholds), truePositiveRate: Float64Array.from(tpr), falsePositiveRate: Float64Array.from(fpr), area };
 }
+
+/**
+ * Detection rate at a false-positive rate of at most `falsePositiveRate`: the highest
+ * true-positive rate among the curve's points whose false-positive rate does not exceed it
+ * (each point is a threshold one can choose, so this is the best operating point within the
+ * budget; 0 when no point fits).
+ * @example truePositiveRateAt(rocCurve([3, 2], [1, 2.5]), 0.5) // 1
+ */
+export function truePositiveRateAt(roc: RocCurve, falsePositiveRate: number): number {
+  let best = 0;
+  for (let i = 0; i < roc.falsePositiveRate.length; i++) {
+    if (roc.falsePositiveRate[i]! <= falsePositiveRate) best = Math.max(best, roc.truePositiveRate[i]!);
+  }
+  return best;
+}

@@ -31,6 +31,11 @@ export interface StageTrainingRecord {
   readonly falsePositiveRate: number;
   readonly positives: number;
   readonly negatives: number;
+  /**
+   * How many of `negatives` were negative patches the cascade still accepted (the rest were
+   * mined from backgrounds). Absent in models trained before negative patches existed (read as 0).
+   */
+  readonly negativesFromPatches?: number;
   /** Background windows looked at to find the negatives (mining cost). */
   readonly windowsScanned: number;
   /** Candidate features boosting searched (fewer than all when the memory cap sampled a subset). */
@@ -62,6 +67,9 @@ export interface TrainingProvenance {
     /** SHA-256 over the sorted relative paths and bytes of every input file. */
     readonly positivesHash: string;
     readonly backgroundsHash: string;
+    /** Negative patches given to training (count and content hash), when any were. */
+    readonly negativePatches?: number;
+    readonly negativePatchesHash?: string;
   };
   /** Why training ended: target reached, stage limit, or backgrounds exhausted. */
   readonly stopReason: string;

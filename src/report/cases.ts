@@ -46,7 +46,7 @@ export function findCasesToReview(images: readonly ImageDetectionsAndTruth[], io
   match.missedTruth.forEach((indices, image) => indices.forEach((t) => missed.push({ image, box: images[image]!.truth[t]! })));
   const falseAlarms = match.detections
     .filter((d) => !d.truePositive)
-    .map((d) => ({ image: d.image, box: images[d.image]!.detections[d.detection]!.box, score: d.score }));
+    .map((d) => ({ image: d.image, box: images[d.image]!.detections[d.index]!.box, score: d.score }));
   return firstOf(missed, falseAlarms, limit);
 }
 

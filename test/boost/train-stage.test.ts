@@ -4,6 +4,7 @@ import { buildResponseMatrix } from '../../src/boost/response-matrix.js';
 import { trainStage } from '../../src/boost/train-stage.js';
 import { thresholdForDetectionRate } from '../../src/boost/stage-threshold.js';
 import { detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
+import { detectorWeakClassifier } from '../../src/detect/detector-cascade.js';
 import { stageSampleScores } from '../../src/detect/window-list.js';
 import { enumerateFeatures } from '../../src/features/enumerate-features.js';
 import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
@@ -95,5 +96,36 @@ describeWithReferenceData('a stage trained on real faces vs non-faces (lfw_subse
     expect(first.featuresUsed).toBe(5000);
     expect(JSON.stringify(again.stage)).toBe(JSON.stringify(first.stage));
     expect(first.stage.weakClassifiers.length).toBeGreaterThan(0);
+  });
+});
+
+describe('a stage with a leading group of negatives (negative patches)', () => {
+  it('meets the false-positive target on each group, not only on all negatives together', async () => {
+    // Generated data: positives and easy negatives are random noise with a bright left half
+    // against a bright right half; the 20 hard negatives are positives with a small change, so
+    // one group is hard and the other easy. Derivation of the check: with targets met, the
+    // stage's scores on each group, recomputed by stageScores, pass at most 0.5 of it.
+    const random = seedrandom('leading-group');
+    const patch = (bright: 'left' | 'right', tweak: boolean) => {
+      const image = randomGrayImage(8, 8, `g${random()}`);
+      for (let y = 0; y < 8; y++) for (let x = 0; x < 8; x++) {
+        const lit = bright === 'left' ? x < 4 : x >= 4;
+        image.data[y * 8 + x] = Math.min(255, (lit ? 140 : 60) + (image.data[y * 8 + x]! >> 3) + (tweak && y < 2 ? 60 : 0));
+      }
+      return image;
+    };
+    const positives = Array.from({ length: 60 }, () => patch('left', false));
+    const hard = Array.from({ length: 20 }, () => patch('left', true));
+    const easy = Array.from({ length: 80 }, () => patch('right', false));
+    const negatives = packWindowSamples([...hard, ...easy], 8, 8);
+    const result = await trainStage({
+      features: enumerateFeatures(8, 8), positives: packWindowSamples(positives, 8, 8), negatives, validationPositives: packWindowSamples(positives, 8, 8),
+      booster: 'gentle', minDetectionRate: 0.99, maxFalsePositiveRate: 0.5, maxWeakClassifiers: 50, random: seedrandom('x'), leadingNegatives: 20,
+    });
+    expect(result.stoppedBecause).toBe('targets-met');
+    const scores = stageSampleScores({ weakClassifiers: result.stage.weakClassifiers.map(detectorWeakClassifier) }, 8, 8, negatives);
+    expect(rate(scores.subarray(0, 20), result.stage.threshold)).toBeLessThanOrEqual(0.5);
+    expect(rate(scores.subarray(20), result.stage.threshold)).toBeLessThanOrEqual(0.5);
+    expect(result.falsePositiveRate).toBeCloseTo(rate(scores, result.stage.threshold), 12);
   });
 });

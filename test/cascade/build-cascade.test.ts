@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { trainCascade } from '../../src/cascade/build-cascade.js';
 import { BackgroundWindows, sampleUniformNegatives } from '../../src/cascade/negative-mining.js';
 import { acceptSamples } from '../../src/detect/window-list.js';
+import { twinStagesPassed } from '../helpers/window-twin.js';
 import { detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
 import { packWindowSamples } from '../../src/features/window-samples.js';
 import { syntheticBackground, syntheticObject } from '../helpers/synthetic-data.js';
@@ -88,5 +89,58 @@ describe('cascade training (in process, generated data)', () => {
     const whole = await trainCascade({ ...options, maxStages: 1 });
     expect(after.stopReason).toBe('interrupted');
     expect(after.stages).toEqual(whole.stages);
+  });
+});
+
+describe('cascade training with negative patches and augmented positives (generated data)', () => {
+  const train = makeData('cascade-train', 300, 8);
+  const random = seedrandom('look-alikes');
+  // Look-alikes: the object's blob without its dark ring (the background's bright spots are of this kind).
+  const lookAlikes = Array.from({ length: 150 }, () => {
+    const patch = syntheticObject(SIDE, random);
+    const data = patch.data.map((v) => Math.max(v, 110));
+    return { ...patch, data };
+  });
+  const options = {
+    windowWidth: SIDE,
+    windowHeight: SIDE,
+    positives: train.positives,
+    backgrounds: train.backgrounds,
+    stageDetectionRate: 0.99,
+    stageFalsePositiveRate: 0.5,
+    targetFalsePositiveRate: 1e-4,
+    maxStages: 4,
+    maxWeakClassifiers: 30,
+    negativesPerStage: 400,
+    booster: 'gentle' as const,
+    mirror: false,
+    validationShare: 0.25,
+    seed: 3,
+    memoryBytes: 2 ** 30,
+  };
+
+  it('takes into every stage the patches its cascade still accepts, up to the share, and mines the rest', async () => {
+    const result = await trainCascade({ ...options, negativePatches: lookAlikes, negativePatchShare: 0.25 });
+    const cap = Math.floor(400 * 0.25); // 100 of the 400 negatives
+    result.stages.forEach((stage, k) => {
+      // Brute-force twin: count the patches that the first k stages accept (all of them before stage 1).
+      const passed = twinStagesPassed({ stages: result.stages.slice(0, k) }, lookAlikes);
+      const accepted = k === 0 ? lookAlikes.length : passed.filter((p) => p === k).length;
+      expect(stage.training!.negativesFromPatches).toBe(Math.min(cap, accepted));
+      expect(result.reports[k]!.negativesFromPatches).toBe(Math.min(cap, accepted));
+      expect(stage.training!.negatives).toBe(400);
+    });
+  });
+
+  it('augments only the training side: validation keeps the real positives', async () => {
+    const plain = await trainCascade({ ...options, maxStages: 1 });
+    const augmented = await trainCascade({ ...options, maxStages: 1, augmentCopies: 2 });
+    // 300 positives, 75 held out (round(300 · 0.25)); the 225 training ones get 2 copies each.
+    expect(plain.validationPositives).toBe(75);
+    expect(augmented.validationPositives).toBe(75);
+    expect(augmented.trainingPositives).toBe(225 * 3);
+    expect(JSON.stringify(augmented.stages)).not.toBe(JSON.stringify(plain.stages));
+    const again = await trainCascade({ ...options, maxStages: 1, augmentCopies: 2 });
+    expect(JSON.stringify(again.stages)).toBe(JSON.stringify(augmented.stages));
   });
 });

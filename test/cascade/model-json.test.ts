@@ -20,14 +20,14 @@ const model: CascadeModel = {
     tool: 'rectboost 0.1.0',
     seed: 7,
     options: { booster: 'gentle', stageDetection: 0.995, mirror: false },
-    data: { positives: 10, validationPositives: 2, backgroundImages: 3, positivesHash: 'ab', backgroundsHash: 'cd' },
+    data: { positives: 10, validationPositives: 2, backgroundImages: 3, positivesHash: 'ab', backgroundsHash: 'cd', negativePatches: 4, negativePatchesHash: 'ef' },
     stopReason: 'target false-positive rate reached',
     timing: { createdAt: '2026-12-01T00:00:00.000Z', totalSeconds: 1.5, stageSeconds: [1.5] },
   },
   stages: [
     {
       threshold: -0.125,
-      training: { detectionRate: 1, falsePositiveRate: 0.25, positives: 8, negatives: 8, windowsScanned: 8, featuresUsed: 100, stoppedBecause: 'targets-met' },
+      training: { detectionRate: 1, falsePositiveRate: 0.25, positives: 8, negatives: 8, negativesFromPatches: 3, windowsScanned: 5, featuresUsed: 100, stoppedBecause: 'targets-met' },
       weakClassifiers: [
         { feature: { kind: 'two-horizontal', x: 1, y: 0, cellWidth: 2, cellHeight: 4 }, splitValue: 0.1 + 0.2, belowOutput: -0.7, aboveOutput: 0.7 },
         { feature: { kind: 'four-diagonal', x: 0, y: 0, cellWidth: 3, cellHeight: 2 }, splitValue: -1e-7, belowOutput: 0.5, aboveOutput: -0.25 },
@@ -66,6 +66,7 @@ describe('model JSON', () => {
     ['a missing window', withChange((m) => delete m.window), /field window is missing/],
     ['an unknown field', withChange((m) => (m.stages[0].bias = 1)), /stages\[0\]\.bias is not a known field/],
     ['a window above the supported side', withChange((m) => (m.window.width = 5000)), /window\.width must be an integer from 1 to 64/],
+    ['more negatives from patches than negatives', withChange((m) => (m.stages[0].training.negativesFromPatches = 9)), /training\.negativesFromPatches must be an integer from 0 to 8/],
     ['truncated JSON', serializeCascadeModel(model).slice(0, 200), /is not valid JSON .* it may be truncated/],
   ];
   for (const [name, text, message] of broken) {

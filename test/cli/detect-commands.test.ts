@@ -1,4 +1,4 @@
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import sharp from 'sharp';
@@ -115,6 +115,37 @@ describe('rectboost evaluate', () => {
     expect(json.truthCount).toBe(5 + 3); // 5 objects in scene a, 3 of them with x ≥ 50 in scene b
     expect(json.detectionRateAtFalsePositives['100']).toBe(1);
     expect(json.speed.windowsScanned).toBeGreaterThan(0);
+  });
+
+  it('--errors writes every false alarm and missed object as a window-sized crop, and refuses a used folder', async () => {
+    // Truth that leaves out the last two of the five painted objects (their detections become
+    // false alarms) and adds a box on bare noise (a miss).
+    const { truth: boxes } = syntheticScene();
+    const partial = join(scenes, 'partial-truth.jsonl');
+    writeFileSync(partial, `${JSON.stringify({ image: 'a-scene.png', boxes: [...boxes.slice(0, 3), [150, 2, 24, 24]] })}\n`);
+    const errors = join(folder, 'errors');
+    const report = join(folder, 'errors-report.json');
+    const { status, stdout } = runCli(['evaluate', model, '--truth', partial, '--errors', errors, '--json', report, '--workers', '1']);
+    expect(status).toBe(0);
+    const json = JSON.parse(readFileSync(report, 'utf8')) as { truthCount: number; detectionCount: number; truePositives: number };
+    const falseAlarms = readdirSync(join(errors, 'false-alarms')).sort();
+    const missed = readdirSync(join(errors, 'missed'));
+    // The counts follow from VOC matching, as the report states them.
+    expect(falseAlarms).toHaveLength(json.detectionCount - json.truePositives);
+    expect(missed).toHaveLength(json.truthCount - json.truePositives);
+    expect(falseAlarms.length).toBeGreaterThanOrEqual(2);
+    expect(missed).toEqual(['a-scene-x150-y2-w24.png']);
+    expect(falseAlarms[0]).toMatch(/^0001-a-scene-x\d+-y\d+-w\d+\.png$/);
+    expect(stdout).toMatch(new RegExp(`crops: ${falseAlarms.length} false alarms in .*false-alarms, 1 missed objects in .*missed`));
+    for (const file of falseAlarms) {
+      const meta = await sharp(join(errors, 'false-alarms', file)).metadata();
+      expect([meta.width, meta.height]).toEqual([24, 24]); // the model window
+    }
+    const listed = readFileSync(join(errors, 'errors.jsonl'), 'utf8').trim().split('\n').map((line) => JSON.parse(line) as { kind: string });
+    expect(listed.filter((entry) => entry.kind === 'false-alarm')).toHaveLength(falseAlarms.length);
+    const again = runCli(['evaluate', model, '--truth', partial, '--errors', errors, '--workers', '1']);
+    expect(again.status).toBe(2);
+    expect(again.stderr).toMatch(/false-alarms already holds \d+ files; give --errors an empty or new folder/);
   });
 
   it('reads COCO-style truth too', () => {

@@ -3,11 +3,12 @@ import { existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import seedrandom from 'seedrandom';
 import sharp from 'sharp';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { parseCascadeModel } from '../../src/cascade/model-json.js';
 import { runCli } from '../helpers/run-cli.js';
-import { writeSyntheticTrainingData } from '../helpers/synthetic-data.js';
+import { syntheticBackground, writeSyntheticTrainingData } from '../helpers/synthetic-data.js';
 
 const BIN = fileURLToPath(new URL('../../bin/rectboost.js', import.meta.url));
 const root = mkdtempSync(join(tmpdir(), 'rectboost-train-'));
@@ -41,6 +42,28 @@ describe('rectboost train', () => {
     expect(model.training!.data.positives).toBe(200);
     expect(model.training!.timing).toBeUndefined();
     expect(existsSync(`${out.replace(/\.json$/, '')}.checkpoint`)).toBe(false);
+  });
+
+  it('trains with --negative-patches and --augment, recording where each stage\'s negatives came from and the patches\' hash', async () => {
+    const patches = join(root, 'negative-patches');
+    mkdirSync(patches, { recursive: true });
+    const random = seedrandom('negative-patches');
+    for (let k = 0; k < 30; k++) {
+      writeFileSync(join(patches, `n${k}.png`), await sharp(Buffer.from(syntheticBackground(16, 16, random).data), { raw: { width: 16, height: 16, channels: 1 } }).png().toBuffer());
+    }
+    const out = join(root, 'patches.json');
+    const result = runCli(['train', '--positives', data.positives, '--backgrounds', data.backgrounds, '--out', out, ...SMALL.filter((a) => a !== '--quiet'),
+      '--negative-patches', patches, '--negative-patch-share', '0.25', '--augment', '1', '--workers', '1']);
+    expect(result.status).toBe(0);
+    const model = parseCascadeModel(readFileSync(out, 'utf8'), out);
+    expect(model.training!.data.negativePatches).toBe(30);
+    expect(model.training!.data.negativePatchesHash).toMatch(/^[0-9a-f]{64}$/);
+    expect(model.training!.options['negativePatchShare']).toBe(0.25);
+    expect(model.training!.options['augment']).toBe(1);
+    // Stage 1 accepts every patch: all 30 fit in a quarter of its 200 negatives.
+    expect(model.stages[0]!.training!.negativesFromPatches).toBe(30);
+    expect(result.stderr).toMatch(/stage 1 saved: .*200 negatives \(30 negative patches, 170 mined\)/);
+    expect(result.stderr).toMatch(/stage\s+weak\s+detection\s+false pos\.\s+overall f\.p\.\s+negatives\s+patches/);
   });
 
   it('is deterministic: same data, options and seed give byte-identical models, with 1 or 2 workers', () => {

@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { intersectionOverUnion, type Box } from '../../src/metrics/intersection-over-union.js';
-import { matchDetections } from '../../src/metrics/match-detections.js';
+import { detectionErrors, matchDetections } from '../../src/metrics/match-detections.js';
 import { logAverageMissRate, missRateCurve } from '../../src/metrics/miss-rate.js';
 import { averagePrecision, detectionRateAtFalsePositives, precisionRecallCurve } from '../../src/metrics/precision-recall.js';
-import { rocCurve } from '../../src/metrics/roc-curve.js';
+import { rocCurve, truePositiveRateAt } from '../../src/metrics/roc-curve.js';
 
 // A hand-worked two-image example (PASCAL VOC matching and AP, Everingham et al. 2010, detection task).
 // Image 0 truth: T1 [0,0,10,10], T2 [20,0,10,10]. Image 1 truth: T3 [0,0,10,10].
@@ -90,5 +90,26 @@ describe('ROC', () => {
     expect(Array.from(roc.truePositiveRate)).toEqual([0, 1 / 3, 1, 1]);
     expect(Array.from(roc.falsePositiveRate)).toEqual([0, 0, 0.5, 1]);
     expect(roc.area).toBeCloseTo(5 / 6, 15);
+  });
+});
+
+describe('detection errors (what evaluate --errors writes)', () => {
+  it('lists unmatched detections by score and unmatched truth boxes, as VOC matching decides', () => {
+    // Hand-worked: image 0 has truth A = [0,0,10,10] and B = [50,50,10,10]. Detections: a hit on A
+    // (score 0.9), a duplicate of A (0.8, counts false), one on nothing (0.95). Image 1 has truth
+    // C = [0,0,10,10] and one detection shifted by 6 px (IoU 16/184 < 0.5, false). Misses: B and C.
+    const errors = detectionErrors([
+      { detections: [{ box: [0, 0, 10, 10], score: 0.9 }, { box: [1, 0, 10, 10], score: 0.8 }, { box: [30, 30, 10, 10], score: 0.95 }], truth: [[0, 0, 10, 10], [50, 50, 10, 10]] },
+      { detections: [{ box: [6, 6, 10, 10], score: 0.5 }], truth: [[0, 0, 10, 10]] },
+    ], 0.5);
+    expect(errors.falseAlarms.map((e) => [e.image, e.index, e.score])).toEqual([[0, 2, 0.95], [0, 1, 0.8], [1, 0, 0.5]]);
+    expect(errors.misses.map((e) => [e.image, e.index, e.box])).toEqual([[0, 1, [50, 50, 10, 10]], [1, 0, [0, 0, 10, 10]]]);
+  });
+
+  it('reads the best detection rate within a false-positive budget off the ROC points', () => {
+    // Scores: positives 3, 2; negatives 2.5, 1. Points (fpr, tpr): (0,0) (0,0.5) (0.5,0.5) (0.5,1) (1,1).
+    const roc = rocCurve([3, 2], [2.5, 1]);
+    expect(truePositiveRateAt(roc, 0)).toBe(0.5);
+    expect(truePositiveRateAt(roc, 0.5)).toBe(1);
   });
 });

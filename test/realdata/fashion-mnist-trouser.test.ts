@@ -11,14 +11,14 @@ import { detectorCascadeFromModel, type DetectorCascade } from '../../src/detect
 import { mergeDetections } from '../../src/detect/merge-detections.js';
 import { scanImage } from '../../src/detect/scan-image.js';
 import { packWindowSamples } from '../../src/features/window-samples.js';
-import { createGrayImage, type GrayImage } from '../../src/image/gray-image.js';
+import type { GrayImage } from '../../src/image/gray-image.js';
 import { computeIntegralImage } from '../../src/image/integral-image.js';
 import { evaluateDetections, type DetectionEvaluation } from '../../src/metrics/detection-evaluation.js';
-import type { Box } from '../../src/metrics/intersection-over-union.js';
 import { evaluatePatches, type PatchEvaluation } from '../../src/metrics/patch-evaluation.js';
-import type { RocCurve } from '../../src/metrics/roc-curve.js';
+import { truePositiveRateAt } from '../../src/metrics/roc-curve.js';
 import { createBoostingPool, type BoostingPool } from '../../src/parallel/boosting-pool.js';
 import { REFERENCE_DATA, describeWithReferenceData } from '../data/reference-files.js';
+import { buildMosaicScenes, FASHION_SIDE, MOSAIC_ITEMS } from './fashion-mosaics.js';
 import { expectStagePassRatesMatchStagesPassed } from './stage-pass-check.js';
 
 /**
@@ -29,10 +29,7 @@ import { expectStagePassRatesMatchStagesPassed } from './stage-pass-check.js';
  * far more within the class.
  */
 const TROUSER = 1;
-/** Side of a Fashion-MNIST item (Xiao et al. 2017), used as the model window without resizing. */
-const SIDE = 28;
-/** Mosaics are 8 × 8 items: 224 × 224 pixels. */
-const MOSAIC_ITEMS = 8;
+const SIDE = FASHION_SIDE;
 
 /** Subset sizes chosen for run time on 2 shared cores (see the figures below). */
 const TRAINING_TROUSERS = 500;
@@ -40,36 +37,6 @@ const BACKGROUND_MOSAICS = 24;
 const TEST_SCENES = 16;
 
 const FOLDER = REFERENCE_DATA + 'fashion-mnist';
-
-/**
- * Tiles items row by row into a mosaic of MOSAIC_ITEMS × MOSAIC_ITEMS cells of SIDE pixels,
- * and returns the box of every item whose label is the object class.
- */
-function buildMosaic(items: readonly GrayImage[], labels: readonly number[]): { image: GrayImage; truth: Box[] } {
-  const width = MOSAIC_ITEMS * SIDE;
-  const image = createGrayImage(width, width);
-  const truth: Box[] = [];
-  items.forEach((item, k) => {
-    const left = (k % MOSAIC_ITEMS) * SIDE;
-    const top = Math.floor(k / MOSAIC_ITEMS) * SIDE;
-    for (let row = 0; row < SIDE; row++) image.data.set(item.data.subarray(row * SIDE, (row + 1) * SIDE), (top + row) * width + left);
-    if (labels[k] === TROUSER) truth.push([left, top, SIDE, SIDE]);
-  });
-  return { image, truth };
-}
-
-/**
- * Detection rate at a false-positive rate of at most `rate`: the highest true-positive rate among
- * the ROC points whose false-positive rate does not exceed it (each point is an achievable
- * threshold on the score, so this is the best operating point within the budget).
- */
-function detectionRateAtFalsePositiveRate(roc: RocCurve, rate: number): number {
-  let best = 0;
-  for (let i = 0; i < roc.falsePositiveRate.length; i++) {
-    if (roc.falsePositiveRate[i]! <= rate) best = Math.max(best, roc.truePositiveRate[i]!);
-  }
-  return best;
-}
 
 const needed = ['train-images-idx3-ubyte.gz', 'train-labels-idx1-ubyte.gz', 't10k-images-idx3-ubyte.gz', 't10k-labels-idx1-ubyte.gz'];
 
@@ -99,7 +66,7 @@ describeWithReferenceData('Fashion-MNIST trouser against the rest', needed.map((
       }
     });
     const perMosaic = MOSAIC_ITEMS ** 2;
-    const backgrounds = Array.from({ length: BACKGROUND_MOSAICS }, (_, m) => buildMosaic(others.slice(m * perMosaic, (m + 1) * perMosaic), []).image);
+    const backgrounds = buildMosaicScenes(others, [], TROUSER).map((scene) => scene.image);
 
     pool = await createBoostingPool(2);
     // Each stage boosts over a seeded sample of ⌊30e6 / samples⌋ ≈ 22,000 of the 299,880
@@ -134,10 +101,7 @@ describeWithReferenceData('Fashion-MNIST trouser against the rest', needed.map((
     // Detection level: the first 16 × 64 = 1,024 test items, in file order, tiled into 16 scenes
     // with each trouser's cell as its truth box. Every item is 28×28, so the scan runs at the
     // model's own scale only; NMS at IoU 0.3 (DEFAULT_MERGE_OPTIONS) merges the shifted hits.
-    const scenes = Array.from({ length: TEST_SCENES }, (_, s) => {
-      const indices = Array.from({ length: perMosaic }, (_, k) => s * perMosaic + k);
-      return buildMosaic(indices.map((i) => test.images[i]!), indices.map((i) => test.labels[i]!));
-    });
+    const scenes = buildMosaicScenes(test.images.slice(0, TEST_SCENES * perMosaic), Array.from(test.labels.subarray(0, TEST_SCENES * perMosaic)), TROUSER);
     detections = evaluateDetections(
       scenes.map(({ image, truth }) => {
         const { hits } = scanImage(detector, computeIntegralImage(image), { smallestSide: SIDE, largestSide: SIDE });
@@ -149,7 +113,7 @@ describeWithReferenceData('Fashion-MNIST trouser against the rest', needed.map((
       `fashion-mnist trouser: ${result.stages.length} stages (${result.stages.map((s) => s.weakClassifiers.length).join('+')} weak), stop ${result.stopReason}, ` +
         `training ${((trained - started) / 1000).toFixed(1)} s, evaluation ${((performance.now() - trained) / 1000).toFixed(1)} s; ` +
         `patch detection ${patches.detectionRate.toFixed(4)}, false positives ${patches.falsePositiveRate.toFixed(4)}, ROC area ${patches.roc.area.toFixed(4)}, ` +
-        `detection at 1 % false positives ${detectionRateAtFalsePositiveRate(patches.roc, 0.01).toFixed(4)}; ` +
+        `detection at 1 % false positives ${truePositiveRateAt(patches.roc, 0.01).toFixed(4)}; ` +
         `scenes: ${detections.truthCount} trousers, ${detections.detectionCount} detections, ${detections.truePositives} true, AP ${detections.averagePrecision.toFixed(4)}`,
     );
   });
@@ -184,7 +148,7 @@ describeWithReferenceData('Fashion-MNIST trouser against the rest', needed.map((
   });
 
   it('detects at least 85 % of the test trousers at 1 % false positives (measured 0.944)', () => {
-    expect(detectionRateAtFalsePositiveRate(patches.roc, 0.01)).toBeGreaterThanOrEqual(0.85);
+    expect(truePositiveRateAt(patches.roc, 0.01)).toBeGreaterThanOrEqual(0.85);
   });
 
   it('finds trousers in mosaic scenes with average precision at least 0.88 at IoU 0.5 (measured 0.962)', () => {

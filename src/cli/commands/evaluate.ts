@@ -11,6 +11,8 @@ import type { ReportInputs } from '../../io/report-files.js';
 import { evaluateDetections, summarizeScans } from '../../metrics/detection-evaluation.js';
 import type { Box } from '../../metrics/intersection-over-union.js';
 import { evaluatePatches } from '../../metrics/patch-evaluation.js';
+import { detectionErrors } from '../../metrics/match-detections.js';
+import { writeErrorCrops } from '../../io/box-crops.js';
 import { detectFiles } from '../../parallel/detect-files.js';
 import { createProgressLine } from '../progress.js';
 import { parseNumber } from '../parse-options.js';
@@ -120,11 +122,23 @@ export function registerEvaluateCommand(program: Command): void {
     .description('measure a cascade on annotated images (detection level) or on labelled patches (patch level)')
     .argument('<model>', 'model JSON from rectboost train, or a runtime export');
   addReportOptions(addEvaluationOptions(command).option('--json <file>', 'write the full report (curves included) as JSON'), '--report')
-    .addHelpText('after', '\nExamples:\n  rectboost evaluate model.json --truth scenes/truth.jsonl --json report.json\n  rectboost evaluate model.json --truth scenes/truth.jsonl --report report.html --plots plots\n  rectboost evaluate model.json --positives patches/rivets --negatives patches/panels\n')
-    .action(async (modelPath: string, options: EvaluationFlags & ReportFlags & { json?: string }) => {
+    .option('--errors <folder>', 'with --truth: write every false alarm and missed object as a window-sized PNG crop into FOLDER/false-alarms and FOLDER/missed (feed the first to train --negative-patches)')
+    .addHelpText('after', '\nExamples:\n  rectboost evaluate model.json --truth scenes/truth.jsonl --json report.json\n  rectboost evaluate model.json --truth scenes/truth.jsonl --report report.html --plots plots\n  rectboost evaluate model.json --positives patches/rivets --negatives patches/panels\n  rectboost evaluate model.json --truth scenes/truth.jsonl --errors errors/   then: rectboost train ... --negative-patches errors/false-alarms\n')
+    .action(async (modelPath: string, options: EvaluationFlags & ReportFlags & { json?: string; errors?: string }) => {
+      if (options.errors !== undefined && options.truth === undefined) {
+        throw new RectboostError('invalid-option', '--errors writes the crops of scene detections; use it with --truth FILE.');
+      }
       const loaded = await loadCascadeFile(modelPath);
       const run = (await runEvaluation('evaluate', modelPath, loaded.detector, options, true))!;
-      process.stdout.write(`${run.lines.join('\n')}\n`);
+      const lines = [...run.lines];
+      const detection = run.reportParts.detection;
+      if (options.errors !== undefined && detection !== undefined) {
+        const iou = parseNumber('--iou', options.iou, 0, 1);
+        const { windowWidth, windowHeight } = loaded.detector;
+        const written = await writeErrorCrops(options.errors, detection.imagePaths, detectionErrors(detection.entries, iou), windowWidth, windowHeight);
+        lines.push(`crops: ${written.falseAlarms} false alarms in ${written.falseAlarmFolder}, ${written.misses} missed objects in ${written.missFolder}`);
+      }
+      process.stdout.write(`${lines.join('\n')}\n`);
       if (options.json !== undefined) await writeFileAtomic(options.json, `${JSON.stringify(run.json, null, 2)}\n`);
       await writeReportFromInputs(options, { modelPath, ...loaded, writtenBy: `rectboost evaluate, ${new Date().toISOString()}`, ...run.reportParts });
     });

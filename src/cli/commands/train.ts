@@ -1,7 +1,7 @@
 import { resolve } from 'node:path';
 import type { Command } from 'commander';
 import type { BoosterKind } from '../../boost/booster.js';
-import { formatRate, type StageReport } from '../../cascade/build-cascade.js';
+import { DEFAULT_NEGATIVE_PATCH_SHARE, formatRate, type StageReport } from '../../cascade/build-cascade.js';
 import { RectboostError } from '../../errors.js';
 import { detectorCascadeFromModel } from '../../detect/detector-cascade.js';
 import { MAX_WINDOW_SIDE } from '../../features/enumerate-features.js';
@@ -35,6 +35,9 @@ interface TrainFlags extends ReportFlags {
   quiet?: boolean;
   timing: boolean;
   keepGoing?: boolean;
+  negativePatches?: string;
+  negativePatchShare: string;
+  augment: string;
 }
 
 /** `rectboost train`: folders in, model JSON out, with checkpoints after every stage. */
@@ -55,6 +58,9 @@ export function registerTrainCommand(program: Command): void {
     .option('--booster <kind>', 'discrete or gentle AdaBoost', 'gentle')
     .option('--features <set>', 'feature set: basic (extended is not built yet)', 'basic')
     .option('--mirror', 'add left-right mirrored copies of the positives')
+    .option('--augment <copies>', 'seeded augmented copies of every training positive (small shifts, scales, rotations, contrast and brightness)', '0')
+    .option('--negative-patches <folder>', 'folder of windows to be rejected (confusable objects, or the false-alarms folder of rectboost evaluate --errors); every stage uses those it still accepts')
+    .option('--negative-patch-share <share>', 'largest share of each stage\'s negatives taken from --negative-patches; the rest are mined from the backgrounds', String(DEFAULT_NEGATIVE_PATCH_SHARE))
     .option('--validation <share>', 'share of positives held out to set stage thresholds', '0.2')
     .option('--seed <number>', 'seed of every random choice', '1')
     .option('--workers <count>', 'worker threads for boosting (default: all cores)')
@@ -72,6 +78,8 @@ Examples:
   rectboost train --positives demo-patches/positives --backgrounds demo-patches/backgrounds --out rivets.json
   rectboost train --positives faces/ --backgrounds street/ --out faces.json --window 20x20 --mirror --max-stages 12
   rectboost train ... --resume            continue after Ctrl-C; OUT already holds the finished stages
+  rectboost evaluate rivets.json --truth scenes/truth.jsonl --errors errors/
+  rectboost train ... --negative-patches errors/false-alarms --out rivets2.json   train again, rejecting them
 
 Each stage keeps --stage-detection of the positives and passes at most --stage-false-positive of the
 negatives, so K stages give roughly d^K detection and f^K false positives overall (Viola & Jones 2001).`,
@@ -117,6 +125,9 @@ async function runTrain(flags: TrainFlags): Promise<void> {
     skipBad: flags.skipBad === true,
     recordTiming: flags.timing,
     keepGoing: flags.keepGoing === true,
+    ...(flags.negativePatches === undefined ? {} : { negativePatches: flags.negativePatches }),
+    negativePatchShare: parseNumber('--negative-patch-share', flags.negativePatchShare, 0, 1),
+    augmentCopies: parseInteger('--augment', flags.augment, 0, 100),
   };
   const progress = new ProgressLine(flags.quiet === true);
 
@@ -148,7 +159,7 @@ async function runTrain(flags: TrainFlags): Promise<void> {
     );
   }
   if (flags.quiet !== true) {
-    process.stderr.write(stageTable(result.reports));
+    process.stderr.write(stageTable(result.reports, options.negativePatches !== undefined));
     process.stderr.write(`${result.stopMessage}\n`);
     process.stderr.write(`Model written to ${resolve(out)} in ${formatDuration(trained.seconds)}.\n`);
   }
@@ -165,7 +176,8 @@ function showEvent(progress: ProgressLine, event: TrainModelEvent, options: Trai
       break;
     case 'data':
       progress.log(
-        `data: ${event.positives} positives${options.mirror ? ' (+ mirrored copies)' : ''}, ${event.backgroundImages} background images; ` +
+        `data: ${event.positives} positives${options.mirror ? ' (+ mirrored copies)' : ''}${options.augmentCopies ? ` (+ ${options.augmentCopies} augmented copies each in training)` : ''}, ` +
+          `${event.backgroundImages} background images${options.negativePatches === undefined ? '' : `, ${event.negativePatches} negative patches`}; ` +
           `window ${options.windowWidth}×${options.windowHeight}, ${options.booster} AdaBoost, ${event.workers} worker${event.workers === 1 ? '' : 's'}`,
       );
       break;
@@ -205,7 +217,7 @@ function showEvent(progress: ProgressLine, event: TrainModelEvent, options: Trai
       const r = event.report;
       progress.log(
         `stage ${r.stageIndex + 1} saved: ${r.weakClassifiers} weak, detection ${r.detectionRate.toFixed(4)}, false positives ${r.falsePositiveRate.toFixed(4)}, ` +
-          `overall ${formatRate(r.overallFalsePositiveRate)}, ${r.negatives} negatives from ${formatCount(r.windowsScanned)} windows` +
+          `overall ${formatRate(r.overallFalsePositiveRate)}, ${negativeSources(r)}` +
           `${r.miningWindowsPerSecond === undefined ? '' : ` (mining ${(r.miningWindowsPerSecond / 1e6).toFixed(1)} M windows/s)`}, ${formatDuration(r.seconds)}`,
       );
       break;
@@ -213,20 +225,36 @@ function showEvent(progress: ProgressLine, event: TrainModelEvent, options: Trai
   }
 }
 
-function stageTable(reports: readonly StageReport[]): string {
+/** Where a stage's negatives came from, for its progress line. */
+function negativeSources(r: StageReport): string {
+  const mined = r.negatives - r.negativesFromPatches;
+  const patches = r.negativesFromPatches > 0 ? ` (${r.negativesFromPatches} negative patches, ${mined} mined)` : '';
+  return `${r.negatives} negatives${patches} from ${formatCount(r.windowsScanned)} windows`;
+}
+
+/**
+ * The summary table. "windows/negative" is background windows scanned per mined negative
+ * (its inverse is the cascade's acceptance rate on the backgrounds); with negative patches a
+ * "patches" column says how many of the negatives were still-accepted patches.
+ */
+function stageTable(reports: readonly StageReport[], withPatches: boolean): string {
   return renderTable(
     'Stages',
-    ['stage', 'weak', 'detection', 'false pos.', 'overall f.p.', 'negatives', 'windows/negative', 'seconds'],
-    reports.map((r) => [
-      r.stageIndex + 1,
-      r.weakClassifiers,
-      r.detectionRate.toFixed(4),
-      r.falsePositiveRate.toFixed(4),
-      formatRate(r.overallFalsePositiveRate),
-      r.negatives,
-      r.negatives > 0 ? (r.windowsScanned / r.negatives).toFixed(1) : '-',
-      r.seconds.toFixed(1),
-    ]),
+    ['stage', 'weak', 'detection', 'false pos.', 'overall f.p.', 'negatives', ...(withPatches ? ['patches'] : []), 'windows/negative', 'seconds'],
+    reports.map((r) => {
+      const mined = r.negatives - r.negativesFromPatches;
+      return [
+        r.stageIndex + 1,
+        r.weakClassifiers,
+        r.detectionRate.toFixed(4),
+        r.falsePositiveRate.toFixed(4),
+        formatRate(r.overallFalsePositiveRate),
+        r.negatives,
+        ...(withPatches ? [r.negativesFromPatches] : []),
+        mined > 0 ? (r.windowsScanned / mined).toFixed(1) : '-',
+        r.seconds.toFixed(1),
+      ];
+    }),
   );
 }
 
