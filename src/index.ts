@@ -41,7 +41,7 @@ export { loadLfwSubset, lfwSubsetFromArray, LFW_SUBSET_ITEMS_PER_CLASS, LFW_SUBS
 export { loadFashionMnist, FASHION_MNIST_SIDE, type FashionMnistSplit } from './data/fashion-mnist.js';
 
 // --- Boosting engine (issue 3): response matrix, weak-learner search, AdaBoost, stage training, worker pool
-export { BOOSTER_KINDS, PERFECT_ERROR, discreteAlpha, initialWeights, updateWeights, type BoosterKind } from './boost/booster.js';
+export { BOOSTER_KINDS, CHANCE_MARGIN, PERFECT_ERROR, discreteAlpha, initialWeights, updateWeights, type BoosterKind } from './boost/booster.js';
 export { BIN_COUNT, binEdge, quantizeBetween, quantizeResponses } from './boost/response-bins.js';
 export { packSampleColumns, type SampleColumns } from './boost/sample-columns.js';
 export {
@@ -54,7 +54,6 @@ export {
 } from './boost/response-matrix.js';
 export { betterSplit, createSplitScratch, searchBestSplit, type SplitCandidate } from './boost/best-split.js';
 export {
-  CHANCE_MARGIN,
   boostRounds,
   decideRound,
   stumpOutputs,

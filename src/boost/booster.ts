@@ -1,4 +1,5 @@
 import { checkThat } from '../check.js';
+import type { SplitCandidate } from './best-split.js';
 
 /**
  * Which AdaBoost variant turns a chosen split into weak-classifier outputs.
@@ -87,4 +88,117 @@ export function updateWeights(weights: ArrayLike<number>, outputs: ArrayLike<num
   const scale = 1 / total;
   for (let i = 0; i < count; i++) updated[i]! *= scale;
   return updated;
+}
+
+/**
+ * A Discrete AdaBoost round is no better than chance when its weighted error is at
+ * least ½ − CHANCE_MARGIN (α would be below 2·10⁻¹²); a Gentle round when its squared
+ * error is within CHANCE_MARGIN of the best constant fit's.
+ */
+export const CHANCE_MARGIN = 1e-12;
+
+/** A weak classifier's two outputs and its vote weight, as a booster derives them from a split. */
+export interface SideOutputs {
+  readonly belowOutput: number;
+  readonly aboveOutput: number;
+  /** Discrete AdaBoost's α; 1 for Gentle AdaBoost, whose outputs are already scaled. */
+  readonly alpha: number;
+}
+
+/**
+ * Everything that differs between the boosters, in one object each: the split scan,
+ * the round decision and the outputs of a weak classifier all read these formulas, so a
+ * booster's maths has one home. Chosen once per search or round with boosterFormulas;
+ * the hot loops never branch on the kind. Weights are assumed to sum to 1.
+ */
+export interface BoosterFormulas {
+  readonly kind: BoosterKind;
+  /**
+   * The error a split minimizes, from the class weights below the split (samples in
+   * bins before it) and over all samples. Equal errors must give equal doubles for any
+   * caller: the worker-count independence of training rests on it.
+   */
+  splitError(positiveBelow: number, negativeBelow: number, positiveTotal: number, negativeTotal: number): number;
+  /** True when the best split of a round beats no constant classifier; boosting stops there. */
+  isNoBetterThanChance(split: SplitCandidate): boolean;
+  /** The outputs of the weak classifier that makes this split, and its α. */
+  sideOutputs(split: SplitCandidate): SideOutputs;
+}
+
+/**
+ * Discrete AdaBoost (Freund & Schapire 1997, the AdaBoost algorithm of §4; Viola & Jones
+ * 2001 Table 1 for stumps on Haar-like features).
+ */
+export const DISCRETE_ADABOOST: BoosterFormulas = {
+  kind: 'discrete',
+  /**
+   * Weighted misclassification error ε = Σ w_i [h(x_i) ≠ y_i] of the better polarity:
+   * positives above the split misclassify P_below + N_above, positives below misclassify
+   * N_below + P_above (Freund & Schapire 1997 §4, ε_t; Viola & Jones 2001 Table 1, step 2).
+   */
+  splitError(positiveBelow, negativeBelow, positiveTotal, negativeTotal) {
+    const positivesAboveError = positiveBelow + (negativeTotal - negativeBelow);
+    const positivesBelowError = negativeBelow + (positiveTotal - positiveBelow);
+    return positivesAboveError <= positivesBelowError ? positivesAboveError : positivesBelowError;
+  },
+  /** α = ½ ln((1 − ε)/ε) ≤ 0 once ε ≥ ½: the stump is no better than a coin. */
+  isNoBetterThanChance(split) {
+    return split.error >= 0.5 - CHANCE_MARGIN;
+  },
+  /**
+   * The side holding more positive weight (the polarity splitError chose, ties to
+   * positives above) votes +α, the other −α, with α = ½ ln((1 − ε)/ε) (see discreteAlpha).
+   */
+  sideOutputs(split) {
+    const alpha = discreteAlpha(split.error);
+    const positivesAbove = split.belowPositive + split.aboveNegative <= split.belowNegative + split.abovePositive;
+    return { belowOutput: positivesAbove ? -alpha : alpha, aboveOutput: positivesAbove ? alpha : -alpha, alpha };
+  },
+};
+
+/** Gentle AdaBoost (Friedman, Hastie & Tibshirani 2000, Algorithm 4). */
+export const GENTLE_ADABOOST: BoosterFormulas = {
+  kind: 'gentle',
+  /**
+   * Weighted squared error Σ w_i (y_i − c_side)² of the least-squares stump, step 2(a) of
+   * Algorithm 4: with c_side the side's weighted label mean (P − N)/(P + N) and y² = 1,
+   * each side contributes (P + N) − (P − N)²/(P + N), so the error is
+   * W − Σ_side (P − N)²/(P + N) with W = P_total + N_total; an empty side contributes 0.
+   */
+  splitError(positiveBelow, negativeBelow, positiveTotal, negativeTotal) {
+    const positiveAbove = positiveTotal - positiveBelow;
+    const negativeAbove = negativeTotal - negativeBelow;
+    const below = positiveBelow + negativeBelow;
+    const above = positiveAbove + negativeAbove;
+    const differenceBelow = positiveBelow - negativeBelow;
+    const differenceAbove = positiveAbove - negativeAbove;
+    return positiveTotal + negativeTotal
+      - (below > 0 ? (differenceBelow * differenceBelow) / below : 0)
+      - (above > 0 ? (differenceAbove * differenceAbove) / above : 0);
+  },
+  /** The best constant fit, c = (P − N)/(P + N) everywhere, leaves W − (P − N)²/W. */
+  isNoBetterThanChance(split) {
+    const positive = split.belowPositive + split.abovePositive;
+    const negative = split.belowNegative + split.aboveNegative;
+    const constantError = positive + negative - ((positive - negative) * (positive - negative)) / (positive + negative);
+    return split.error >= constantError - CHANCE_MARGIN;
+  },
+  /**
+   * Each side outputs its weighted label mean (P − N)/(P + N), the least-squares fit of
+   * step 2(a); an empty side outputs 0. Step 2(b) adds f_m unscaled, so α = 1.
+   */
+  sideOutputs(split) {
+    const below = split.belowPositive + split.belowNegative;
+    const above = split.abovePositive + split.aboveNegative;
+    return {
+      belowOutput: below > 0 ? (split.belowPositive - split.belowNegative) / below : 0,
+      aboveOutput: above > 0 ? (split.abovePositive - split.aboveNegative) / above : 0,
+      alpha: 1,
+    };
+  },
+};
+
+/** The formulas of booster `kind`. */
+export function boosterFormulas(kind: BoosterKind): BoosterFormulas {
+  return kind === 'gentle' ? GENTLE_ADABOOST : DISCRETE_ADABOOST;
 }
