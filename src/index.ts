@@ -139,7 +139,14 @@ export {
   type TrainingEvent,
 } from './cascade/build-cascade.js';
 export { trainModel, TOOL_NAME, INTERRUPTED_STOP_REASON, type TrainModelOptions, type TrainModelEvent, type TrainedModel } from './io/train-model.js';
-export { loadCascadeModel, saveCascadeModel, loadCascadeFile, loadFullModel, type LoadedCascade } from './io/model-file.js';
+export {
+  loadModelFile,
+  saveCascadeModel,
+  type LoadModelOptions,
+  type LoadedFullModel,
+  type LoadedRuntimeCascade,
+  type ModelRequirement,
+} from './io/model-file.js';
 export { readCheckpoint, writeCheckpoint, removeCheckpoint, type Checkpoint, type TrainingFingerprint } from './io/checkpoint.js';
 export { loadPositiveWindows, type LoadedPositives, type PositiveLoadOptions } from './data/positives.js';
 export { loadBackgroundImages, type LoadedBackgrounds } from './data/backgrounds.js';

@@ -6,7 +6,7 @@ import { writeFileAtomic } from '../../io/atomic-write.js';
 import { DETECTION_COLOUR, drawBoxes } from '../../io/draw-boxes.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
 import { detectFiles, type ImageDetections } from '../../parallel/detect-files.js';
-import { loadCascadeFile } from '../../io/model-file.js';
+import { loadModelFile } from '../../io/model-file.js';
 import { createProgressLine } from '../progress.js';
 import { addScanOptions, parseScanOptions, type ScanOptionText } from '../scan-options.js';
 
@@ -39,7 +39,7 @@ export function registerDetectCommand(program: Command): void {
     .addHelpText('after', '\nExamples:\n  rectboost detect model.json scenes/ --out detections.jsonl\n  rectboost detect model.json photo.jpg --merge mean --min-support 3 --draw annotated/\n')
     .action(async (modelPath: string, paths: string[], options: ScanOptionText & { out?: string; draw?: string }) => {
       const parsed = parseScanOptions(options);
-      const { detector } = await loadCascadeFile(modelPath);
+      const { detector } = await loadModelFile(modelPath, { require: 'any-cascade' });
       const files = await listImageFilesOfAll(paths);
       if (files.length === 0) throw new RectboostError('bad-data', `No image files (PNG, JPEG, TIFF, WebP) under ${paths.join(', ')}.`);
       const lines: string[] = [];

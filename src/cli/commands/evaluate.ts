@@ -9,7 +9,7 @@ import { evaluatePatches } from '../../metrics/patch-evaluation.js';
 import { detectFiles } from '../../parallel/detect-files.js';
 import type { ScanStatistics } from '../../detect/scan-image.js';
 import type { Box } from '../../metrics/intersection-over-union.js';
-import { loadCascadeFile } from '../../io/model-file.js';
+import { loadModelFile } from '../../io/model-file.js';
 import { createProgressLine } from '../progress.js';
 import { parseNumber } from '../parse-options.js';
 import { addScanOptions, parseScanOptions, type ScanOptionText } from '../scan-options.js';
@@ -36,7 +36,7 @@ export function registerEvaluateCommand(program: Command): void {
       if (patchMode === (options.truth !== undefined) || (patchMode && (options.positives === undefined || options.negatives === undefined))) {
         throw new RectboostError('invalid-option', 'evaluate needs either --truth FILE, or both --positives DIR and --negatives DIR.');
       }
-      const { detector } = await loadCascadeFile(modelPath);
+      const { detector } = await loadModelFile(modelPath, { require: 'any-cascade' });
       let report: unknown;
       const lines: string[] = [];
       if (patchMode) {

@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { runtimeCascadeFromValue, runtimeFileFromDetector } from '../../cascade/runtime-export.js';
 import { writeFileAtomic } from '../../io/atomic-write.js';
-import { loadCascadeFile } from '../../io/model-file.js';
+import { loadModelFile } from '../../io/model-file.js';
 
 /** `rectboost export MODEL --out FILE` */
 export function registerExportCommand(program: Command): void {
@@ -12,7 +12,7 @@ export function registerExportCommand(program: Command): void {
     .requiredOption('--out <file>', 'where to write the runtime cascade')
     .addHelpText('after', '\nThe layout is documented by schema/runtime-cascade.schema.json.\n\nExamples:\n  rectboost export model.json --out cascade.json\n  rectboost detect cascade.json photo.jpg\n')
     .action(async (modelPath: string, options: { out: string }) => {
-      const { detector } = await loadCascadeFile(modelPath);
+      const { detector } = await loadModelFile(modelPath, { require: 'any-cascade' });
       const file = runtimeFileFromDetector(detector);
       const text = `${JSON.stringify(file)}\n`;
       // Validate what we are about to write with the same checks a reader applies.
