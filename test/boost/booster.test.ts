@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { SplitCandidate } from '../../src/boost/best-split.js';
-import { boosterFormulas, discreteAlpha, DISCRETE_ADABOOST, GENTLE_ADABOOST, initialWeights, updateWeights } from '../../src/boost/booster.js';
+import { boosterFormulas, discreteAlpha, type BoosterFormulas, DISCRETE_ADABOOST, GENTLE_ADABOOST, initialWeights, updateWeights } from '../../src/boost/booster.js';
 
 describe('Discrete AdaBoost formulas (Freund & Schapire 1997)', () => {
   it('gives α = ½ ln((1 − ε)/ε): ε = 0.25 → ½ ln 3', () => {
@@ -53,6 +53,13 @@ function splitOf(weights: number[], positives: number, below: boolean[], error: 
   return { feature: 0, bin: 1, error, belowPositive, belowNegative, abovePositive, aboveNegative };
 }
 
+/** A booster's split error at one edge. */
+function errorAt(formulas: BoosterFormulas, positiveBelow: number, negativeBelow: number, positiveTotal: number, negativeTotal: number): number {
+  const errors = new Float64Array(1);
+  formulas.splitErrors(Float64Array.of(positiveBelow), Float64Array.of(negativeBelow), 1, positiveTotal, negativeTotal, errors);
+  return errors[0]!;
+}
+
 describe('the booster objects: one home for each booster’s split error, side outputs and α', () => {
   // Six samples, 0..2 positive; samples 0, 1 and 3 fall below the split.
   const weights = [0.1, 0.25, 0.05, 0.2, 0.15, 0.25];
@@ -60,7 +67,7 @@ describe('the booster objects: one home for each booster’s split error, side o
   const labels = [1, 1, 1, -1, -1, -1];
   const sums = splitOf(weights, 3, below, 0);
   const splitError = (formulas: typeof DISCRETE_ADABOOST) =>
-    formulas.splitError(sums.belowPositive, sums.belowNegative, sums.belowPositive + sums.abovePositive, sums.belowNegative + sums.aboveNegative);
+    errorAt(formulas, sums.belowPositive, sums.belowNegative, sums.belowPositive + sums.abovePositive, sums.belowNegative + sums.aboveNegative);
 
   it('scores a discrete split by the weighted error of its better polarity, summed sample by sample (Freund & Schapire 1997)', () => {
     // Brute-force twin: each polarity's misclassified weight, sample by sample.
@@ -102,9 +109,19 @@ describe('the booster objects: one home for each booster’s split error, side o
   it('calls a gentle round no better than chance when both sides have the same label mean (the constant fit)', () => {
     // Below: P 0.2, N 0.1; above: P 0.4, N 0.2 → both means 1/3, so the split explains nothing.
     const flat = { feature: 0, bin: 1, belowPositive: 0.2, belowNegative: 0.1, abovePositive: 0.4, aboveNegative: 0.2 };
-    const flatError = GENTLE_ADABOOST.splitError(0.2, 0.1, 0.6, 0.3);
+    const flatError = errorAt(GENTLE_ADABOOST, 0.2, 0.1, 0.6, 0.3);
     expect(GENTLE_ADABOOST.isNoBetterThanChance({ ...flat, error: flatError })).toBe(true);
     expect(GENTLE_ADABOOST.isNoBetterThanChance({ ...sums, error: splitError(GENTLE_ADABOOST) })).toBe(false);
+  });
+
+  it('scores every edge it is given, and only those', () => {
+    // Three edges in one call equal three one-edge calls; the slot past `count` is left alone.
+    const positiveBelow = Float64Array.of(0.1, 0.3, 0.4), negativeBelow = Float64Array.of(0.05, 0.2, 0.5);
+    for (const formulas of [DISCRETE_ADABOOST, GENTLE_ADABOOST]) {
+      const errors = new Float64Array(4).fill(-1);
+      formulas.splitErrors(positiveBelow, negativeBelow, 3, 0.4, 0.6, errors);
+      expect(Array.from(errors)).toEqual([0, 1, 2].map((k) => errorAt(formulas, positiveBelow[k]!, negativeBelow[k]!, 0.4, 0.6)).concat(-1));
+    }
   });
 
   it('is chosen by kind', () => {
