@@ -51,7 +51,7 @@ export { loadLfwSubset, lfwSubsetFromArray, LFW_SUBSET_ITEMS_PER_CLASS, LFW_SUBS
 export { loadFashionMnist, FASHION_MNIST_SIDE, type FashionMnistSplit } from './data/fashion-mnist.js';
 
 // --- Boosting engine (issue 3): response matrix, weak-learner search, AdaBoost, stage training, worker pool
-export { BOOSTER_KINDS, PERFECT_ERROR, discreteAlpha, initialWeights, updateWeights, type BoosterKind } from './boost/booster.js';
+export { BOOSTER_KINDS, CHANCE_MARGIN, PERFECT_ERROR, discreteAlpha, initialWeights, updateWeights, type BoosterKind } from './boost/booster.js';
 export { BIN_COUNT, binEdge, quantizeBetween, quantizeResponses } from './boost/response-bins.js';
 export { packSampleColumns, type SampleColumns } from './boost/sample-columns.js';
 export {
@@ -64,7 +64,6 @@ export {
 } from './boost/response-matrix.js';
 export { betterSplit, createSplitScratch, searchBestSplit, type SplitCandidate } from './boost/best-split.js';
 export {
-  CHANCE_MARGIN,
   boostRounds,
   decideRound,
   stumpOutputs,
@@ -168,7 +167,14 @@ export {
   type TrainingEvent,
 } from './cascade/build-cascade.js';
 export { trainModel, TOOL_NAME, INTERRUPTED_STOP_REASON, type TrainModelOptions, type TrainModelEvent, type TrainedModel } from './jobs/train-model.js';
-export { loadCascadeModel, saveCascadeModel, loadCascadeFile, loadFullModel, type LoadedCascade } from './io/model-file.js';
+export {
+  loadModelFile,
+  saveCascadeModel,
+  type LoadModelOptions,
+  type LoadedFullModel,
+  type LoadedRuntimeCascade,
+  type ModelRequirement,
+} from './io/model-file.js';
 export { readCheckpoint, writeCheckpoint, removeCheckpoint, type Checkpoint, type TrainingFingerprint } from './io/checkpoint.js';
 export { loadPositiveWindows, type LoadedPositives, type PositiveLoadOptions } from './data/positives.js';
 export { loadBackgroundImages, type LoadedBackgrounds } from './data/backgrounds.js';

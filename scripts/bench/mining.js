@@ -5,7 +5,7 @@
 // Options: --runs=N (default 3).
 import os from 'node:os';
 import seedrandom from 'seedrandom';
-import { BackgroundWindows, loadBackgroundImages, loadCascadeModel, mineHardNegatives } from '../../dist/index.js';
+import { BackgroundWindows, loadBackgroundImages, loadModelFile, mineHardNegatives } from '../../dist/index.js';
 
 export const title = 'Negative mining through the scan kernel (demo backgrounds, 8-stage demo cascade)';
 
@@ -17,7 +17,7 @@ function option(flags, name, fallback) {
 export async function run(flags) {
   const runs = option(flags, 'runs', 3);
   const root = new URL('../../', import.meta.url).pathname;
-  const model = await loadCascadeModel(`${root}test/fixtures/demo-cascade.json`);
+  const { model } = await loadModelFile(`${root}test/fixtures/demo-cascade.json`, { require: 'full-model' });
   const { images } = await loadBackgroundImages(`${root}demo-patches/backgrounds`, { windowWidth: 24, windowHeight: 24, skipBad: false });
   console.log(`load average before: ${os.loadavg().map((l) => l.toFixed(2)).join(', ')} on ${os.availableParallelism()} cores`);
   for (let run = 1; run <= runs; run++) {

@@ -1,14 +1,7 @@
 import { checkInteger } from '../check.js';
-import { discreteAlpha, initialWeights, PERFECT_ERROR, updateWeights, type BoosterKind } from './booster.js';
+import { boosterFormulas, initialWeights, PERFECT_ERROR, updateWeights, type BoosterKind } from './booster.js';
 import { createSplitScratch, searchBestSplit, type SplitCandidate } from './best-split.js';
 import { splitValueOf, type ResponseMatrix } from './response-matrix.js';
-
-/**
- * A Discrete AdaBoost round is no better than chance when its weighted error is
- * at least ½ − CHANCE_MARGIN (α would be below 2·10⁻¹²); a Gentle round when its
- * squared error is within CHANCE_MARGIN of the best constant fit's.
- */
-export const CHANCE_MARGIN = 1e-12;
 
 /** A chosen stump in matrix terms: feature index, bin, and the two outputs. */
 export interface ChosenStump {
@@ -36,35 +29,17 @@ export type RoundOutcome =
   | { readonly kind: 'stop'; readonly reason: 'no-better-than-chance' };
 
 /**
- * Turns the best split of a round into weak-classifier outputs and decides whether
- * boosting goes on. Weights are assumed to sum to 1.
- * - discrete: the side holding more positive weight votes +α, the other −α, with
- *   α = ½ ln((1 − ε)/ε) (Freund & Schapire 1997).
- * - gentle: each side outputs (P − N)/(P + N), its weighted label mean (Friedman,
- *   Hastie & Tibshirani 2000, Algorithm 4); an empty side outputs 0.
+ * Turns the best split of a round into a weak classifier and decides whether boosting
+ * goes on, with the booster's formulas (DISCRETE_ADABOOST, GENTLE_ADABOOST): its chance
+ * test, then its side outputs and α. Weights are assumed to sum to 1.
+ * @example decideRound(searchBestSplit(…, 'gentle', …), 'gentle')
  */
 export function decideRound(candidate: SplitCandidate | null, booster: BoosterKind): RoundOutcome {
   if (candidate === null) return { kind: 'stop', reason: 'no-better-than-chance' };
-  const { belowPositive, belowNegative, abovePositive, aboveNegative, error } = candidate;
-  let belowOutput: number;
-  let aboveOutput: number;
-  let alpha = 1;
-  if (booster === 'discrete') {
-    if (error >= 0.5 - CHANCE_MARGIN) return { kind: 'stop', reason: 'no-better-than-chance' };
-    alpha = discreteAlpha(error);
-    const positivesAbove = belowPositive + aboveNegative <= belowNegative + abovePositive;
-    belowOutput = positivesAbove ? -alpha : alpha;
-    aboveOutput = positivesAbove ? alpha : -alpha;
-  } else {
-    const positive = belowPositive + abovePositive;
-    const negative = belowNegative + aboveNegative;
-    const constantError = positive + negative - ((positive - negative) * (positive - negative)) / (positive + negative);
-    if (error >= constantError - CHANCE_MARGIN) return { kind: 'stop', reason: 'no-better-than-chance' };
-    const below = belowPositive + belowNegative;
-    const above = abovePositive + aboveNegative;
-    belowOutput = below > 0 ? (belowPositive - belowNegative) / below : 0;
-    aboveOutput = above > 0 ? (abovePositive - aboveNegative) / above : 0;
-  }
+  const formulas = boosterFormulas(booster);
+  if (formulas.isNoBetterThanChance(candidate)) return { kind: 'stop', reason: 'no-better-than-chance' };
+  const { belowOutput, aboveOutput, alpha } = formulas.sideOutputs(candidate);
+  const error = candidate.error;
   const stump: ChosenStump = { feature: candidate.feature, bin: candidate.bin, belowOutput, aboveOutput, weightedError: error, alpha };
   return error <= PERFECT_ERROR ? { kind: 'stop', reason: 'perfect-separation', stump } : { kind: 'round', stump };
 }

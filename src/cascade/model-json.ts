@@ -1,6 +1,7 @@
+import { FieldChecks } from '../check.js';
 import { RectboostError } from '../errors.js';
 import { MAX_WINDOW_SIDE } from '../features/enumerate-features.js';
-import { BASIC_FEATURE_KINDS, isFeatureKind } from '../features/feature-kind.js';
+import { BASIC_FEATURE_KINDS } from '../features/feature-kind.js';
 import { featureFitsWindow, type HaarFeature } from '../features/haar-feature.js';
 import {
   CASCADE_FORMAT,
@@ -127,6 +128,26 @@ function orderedProvenance(training: TrainingProvenance): object {
 }
 
 /**
+ * Parses JSON text of a model or runtime-cascade file, refusing text above
+ * MODEL_LIMITS.maxTextBytes. `label` names the source (usually the file path).
+ * @throws RectboostError `bad-model` for oversized text or text that is not JSON.
+ */
+export function parseModelText(text: string, label: string): unknown {
+  if (text.length > MODEL_LIMITS.maxTextBytes) {
+    throw new RectboostError('bad-model', `Model ${label} is ${text.length} bytes, above the limit of ${MODEL_LIMITS.maxTextBytes}; pass a file written by rectboost train or export.`);
+  }
+  try {
+    return JSON.parse(text) as unknown;
+  } catch (error) {
+    throw new RectboostError(
+      'bad-model',
+      `Model ${label} is not valid JSON (${(error as Error).message}); it may be truncated — pass a file written by rectboost train or export.`,
+      { cause: error },
+    );
+  }
+}
+
+/**
  * Parses and strictly validates model JSON text. `label` (usually the file path)
  * names the source in errors. Checks: known format and version, window within
  * 1..MAX_WINDOW_SIDE, every number finite and bounded, every feature of a known
@@ -135,41 +156,36 @@ function orderedProvenance(training: TrainingProvenance): object {
  * @throws RectboostError `bad-model` with the field path, e.g. `stages[2].weakClassifiers[5].splitValue`.
  */
 export function parseCascadeModel(text: string, label: string): CascadeModel {
-  if (text.length > MODEL_LIMITS.maxTextBytes) {
-    throw new RectboostError('bad-model', `Model ${label} is ${text.length} bytes, above the limit of ${MODEL_LIMITS.maxTextBytes}.`);
-  }
-  let raw: unknown;
-  try {
-    raw = JSON.parse(text);
-  } catch (error) {
-    throw new RectboostError('bad-model', `Model ${label} is not valid JSON (${(error as Error).message}); it may be truncated.`, { cause: error });
-  }
-  return validateCascadeModel(raw, label);
+  return validateCascadeModel(parseModelText(text, label), label);
+}
+
+/** The checks of a full model file's fields, messages naming `label` and the field path. */
+function modelChecks(label: string): FieldChecks {
+  return new FieldChecks({ code: 'bad-model', source: `Model ${label}`, remedy: 'Pass a model written by rectboost train or tune, unedited.' });
+}
+
+/** A number a model may hold: finite and within ±MODEL_LIMITS.maxAbsoluteValue. */
+function modelNumber(v: FieldChecks, value: unknown, path: string): number {
+  return v.numberIn(value, path, -MODEL_LIMITS.maxAbsoluteValue, MODEL_LIMITS.maxAbsoluteValue);
 }
 
 /** Validates an already-parsed value as a CascadeModel (see parseCascadeModel). */
 export function validateCascadeModel(raw: unknown, label: string): CascadeModel {
-  const v = new ModelValidator(label);
+  const v = modelChecks(label);
   const root = v.object(raw, '', ['format', 'version', 'window', 'normalization', 'featureSet', 'stages'], ['meanPositive', 'training']);
-  if (root.format !== CASCADE_FORMAT) {
-    v.fail('format', `must be "${CASCADE_FORMAT}" (received ${JSON.stringify(root.format)}); this is not a rectboost model`);
-  }
-  if (root.version !== CASCADE_VERSION) {
-    v.fail('version', `must be ${CASCADE_VERSION} (received ${JSON.stringify(root.version)}); this rectboost reads version ${CASCADE_VERSION} models only`);
-  }
+  v.constant(root.format, 'format', CASCADE_FORMAT, 'this is not a rectboost model');
+  v.constant(root.version, 'version', CASCADE_VERSION, `this rectboost reads version ${CASCADE_VERSION} models only`);
   const windowObject = v.object(root.window, 'window', ['width', 'height'], []);
   const width = v.integer(windowObject.width, 'window.width', 1, MAX_WINDOW_SIDE);
   const height = v.integer(windowObject.height, 'window.height', 1, MAX_WINDOW_SIDE);
-  if (root.normalization !== 'window-standard-deviation') {
-    v.fail('normalization', `must be "window-standard-deviation" (received ${JSON.stringify(root.normalization)})`);
-  }
-  if (root.featureSet !== 'basic') v.fail('featureSet', `must be "basic" (received ${JSON.stringify(root.featureSet)})`);
+  v.constant(root.normalization, 'normalization', 'window-standard-deviation');
+  v.constant(root.featureSet, 'featureSet', 'basic');
   const stagesRaw = v.array(root.stages, 'stages', MODEL_LIMITS.maxStages);
   let totalWeak = 0;
   const stages: Stage[] = stagesRaw.map((stageRaw, s) => {
     const path = `stages[${s}]`;
     const stageObject = v.object(stageRaw, path, ['threshold', 'weakClassifiers'], ['training']);
-    const threshold = v.number(stageObject.threshold, `${path}.threshold`);
+    const threshold = modelNumber(v, stageObject.threshold, `${path}.threshold`);
     const weakRaw = v.array(stageObject.weakClassifiers, `${path}.weakClassifiers`, MODEL_LIMITS.maxWeakClassifiersPerStage);
     totalWeak += weakRaw.length;
     if (totalWeak > MODEL_LIMITS.maxWeakClassifiersTotal) {
@@ -190,21 +206,18 @@ export function validateCascadeModel(raw: unknown, label: string): CascadeModel 
   };
   if (root.meanPositive !== undefined) {
     const mean = v.array(root.meanPositive, 'meanPositive', width * height);
-    if (mean.length !== width * height) v.fail('meanPositive', `must hold ${width * height} values (received ${mean.length})`);
+    if (mean.length !== width * height) v.fail('meanPositive', `must hold ${width * height} values; received ${mean.length}`);
     model = { ...model, meanPositive: mean.map((value, i) => v.numberIn(value, `meanPositive[${i}]`, 0, 255)) };
   }
   if (root.training !== undefined) model = { ...model, training: parseProvenance(v, root.training) };
   return model;
 }
 
-function parseWeak(v: ModelValidator, raw: unknown, path: string, width: number, height: number): WeakClassifier {
+function parseWeak(v: FieldChecks, raw: unknown, path: string, width: number, height: number): WeakClassifier {
   const weak = v.object(raw, path, ['feature', 'splitValue', 'belowOutput', 'aboveOutput'], []);
   const featureObject = v.object(weak.feature, `${path}.feature`, ['kind', 'x', 'y', 'cellWidth', 'cellHeight'], []);
-  if (!isFeatureKind(featureObject.kind)) {
-    v.fail(`${path}.feature.kind`, `must be one of ${BASIC_FEATURE_KINDS.join(', ')} (received ${JSON.stringify(featureObject.kind)})`);
-  }
   const feature: HaarFeature = {
-    kind: featureObject.kind,
+    kind: v.oneOf(featureObject.kind, `${path}.feature.kind`, BASIC_FEATURE_KINDS),
     x: v.integer(featureObject.x, `${path}.feature.x`, 0, MAX_WINDOW_SIDE),
     y: v.integer(featureObject.y, `${path}.feature.y`, 0, MAX_WINDOW_SIDE),
     cellWidth: v.integer(featureObject.cellWidth, `${path}.feature.cellWidth`, 1, MAX_WINDOW_SIDE),
@@ -215,48 +228,47 @@ function parseWeak(v: ModelValidator, raw: unknown, path: string, width: number,
   }
   return {
     feature,
-    splitValue: v.number(weak.splitValue, `${path}.splitValue`),
-    belowOutput: v.number(weak.belowOutput, `${path}.belowOutput`),
-    aboveOutput: v.number(weak.aboveOutput, `${path}.aboveOutput`),
+    splitValue: modelNumber(v, weak.splitValue, `${path}.splitValue`),
+    belowOutput: modelNumber(v, weak.belowOutput, `${path}.belowOutput`),
+    aboveOutput: modelNumber(v, weak.aboveOutput, `${path}.aboveOutput`),
   };
 }
 
-function parseStageRecord(v: ModelValidator, raw: unknown, path: string): StageTrainingRecord {
+function parseStageRecord(v: FieldChecks, raw: unknown, path: string): StageTrainingRecord {
   const record = v.object(raw, path, ['detectionRate', 'falsePositiveRate', 'positives', 'negatives', 'windowsScanned', 'featuresUsed', 'stoppedBecause'], ['negativesFromPatches']);
-  if (!(STOP_REASONS as readonly unknown[]).includes(record.stoppedBecause)) {
-    v.fail(`${path}.stoppedBecause`, `must be one of ${STOP_REASONS.join(', ')}`);
-  }
+  const count = (key: string) => v.integer(record[key], `${path}.${key}`, 0, Number.MAX_SAFE_INTEGER);
   return {
     detectionRate: v.numberIn(record.detectionRate, `${path}.detectionRate`, 0, 1),
     falsePositiveRate: v.numberIn(record.falsePositiveRate, `${path}.falsePositiveRate`, 0, 1),
-    positives: v.integer(record.positives, `${path}.positives`, 0, Number.MAX_SAFE_INTEGER),
-    negatives: v.integer(record.negatives, `${path}.negatives`, 0, Number.MAX_SAFE_INTEGER),
+    positives: count('positives'),
+    negatives: count('negatives'),
     ...(record.negativesFromPatches === undefined
       ? {}
-      : { negativesFromPatches: v.integer(record.negativesFromPatches, `${path}.negativesFromPatches`, 0, v.integer(record.negatives, `${path}.negatives`, 0, Number.MAX_SAFE_INTEGER)) }),
-    windowsScanned: v.integer(record.windowsScanned, `${path}.windowsScanned`, 0, Number.MAX_SAFE_INTEGER),
-    featuresUsed: v.integer(record.featuresUsed, `${path}.featuresUsed`, 0, Number.MAX_SAFE_INTEGER),
-    stoppedBecause: record.stoppedBecause as StageTrainingRecord['stoppedBecause'],
+      : { negativesFromPatches: v.integer(record.negativesFromPatches, `${path}.negativesFromPatches`, 0, count('negatives')) }),
+    windowsScanned: count('windowsScanned'),
+    featuresUsed: count('featuresUsed'),
+    stoppedBecause: v.oneOf(record.stoppedBecause, `${path}.stoppedBecause`, STOP_REASONS),
   };
 }
 
-function parseProvenance(v: ModelValidator, raw: unknown): TrainingProvenance {
+function parseProvenance(v: FieldChecks, raw: unknown): TrainingProvenance {
   const t = v.object(raw, 'training', ['tool', 'seed', 'options', 'data', 'stopReason'], ['timing']);
   const optionsObject = v.object(t.options, 'training.options', [], null);
   const options: Record<string, string | number | boolean | null> = {};
   for (const [key, value] of Object.entries(optionsObject)) {
-    if (value !== null && typeof value !== 'string' && typeof value !== 'boolean') v.number(value, `training.options.${key}`);
+    if (value !== null && typeof value !== 'string' && typeof value !== 'boolean') modelNumber(v, value, `training.options.${key}`);
     options[key] = value as string | number | boolean | null;
   }
   const data = v.object(t.data, 'training.data', ['positives', 'validationPositives', 'backgroundImages', 'positivesHash', 'backgroundsHash'], ['negativePatches', 'negativePatchesHash']);
+  const count = (key: string) => v.integer(data[key], `training.data.${key}`, 0, Number.MAX_SAFE_INTEGER);
   const provenance: TrainingProvenance = {
     tool: v.string(t.tool, 'training.tool'),
     seed: v.integer(t.seed, 'training.seed', 0, Number.MAX_SAFE_INTEGER),
     options,
     data: {
-      positives: v.integer(data.positives, 'training.data.positives', 0, Number.MAX_SAFE_INTEGER),
-      validationPositives: v.integer(data.validationPositives, 'training.data.validationPositives', 0, Number.MAX_SAFE_INTEGER),
-      backgroundImages: v.integer(data.backgroundImages, 'training.data.backgroundImages', 0, Number.MAX_SAFE_INTEGER),
+      positives: count('positives'),
+      validationPositives: count('validationPositives'),
+      backgroundImages: count('backgroundImages'),
       positivesHash: v.string(data.positivesHash, 'training.data.positivesHash'),
       backgroundsHash: v.string(data.backgroundsHash, 'training.data.backgroundsHash'),
       ...(data.negativePatches === undefined ? {} : { negativePatches: v.integer(data.negativePatches, 'training.data.negativePatches', 0, Number.MAX_SAFE_INTEGER) }),
@@ -275,57 +287,4 @@ function parseProvenance(v: ModelValidator, raw: unknown): TrainingProvenance {
       stageSeconds: stageSeconds.map((value, i) => v.numberIn(value, `training.timing.stageSeconds[${i}]`, 0, MODEL_LIMITS.maxAbsoluteValue)),
     },
   };
-}
-
-/** Field-path-aware checks; every failure is one sentence naming file and field. */
-class ModelValidator {
-  constructor(private readonly label: string) {}
-
-  fail(path: string, problem: string): never {
-    const where = path === '' ? 'the top level' : `field ${path}`;
-    throw new RectboostError('bad-model', `Model ${this.label}: ${where} ${problem}.`);
-  }
-
-  /** An object with all `required` keys; any key outside required ∪ optional is refused unless optional is null. */
-  object(value: unknown, path: string, required: readonly string[], optional: readonly string[] | null): Record<string, unknown> {
-    if (typeof value !== 'object' || value === null || Array.isArray(value)) this.fail(path, 'must be an object');
-    const record = value as Record<string, unknown>;
-    for (const key of required) {
-      if (!(key in record)) this.fail(path === '' ? key : `${path}.${key}`, 'is missing');
-    }
-    if (optional !== null) {
-      for (const key of Object.keys(record)) {
-        if (!required.includes(key) && !optional.includes(key)) this.fail(path === '' ? key : `${path}.${key}`, 'is not a known field');
-      }
-    }
-    return record;
-  }
-
-  array(value: unknown, path: string, maxLength: number): unknown[] {
-    if (!Array.isArray(value)) this.fail(path, 'must be an array');
-    if (value.length > maxLength) this.fail(path, `has ${value.length} entries, above the limit of ${maxLength}`);
-    return value;
-  }
-
-  number(value: unknown, path: string): number {
-    return this.numberIn(value, path, -MODEL_LIMITS.maxAbsoluteValue, MODEL_LIMITS.maxAbsoluteValue);
-  }
-
-  numberIn(value: unknown, path: string, min: number, max: number): number {
-    if (typeof value !== 'number' || !Number.isFinite(value)) this.fail(path, `must be a finite number (received ${JSON.stringify(value)})`);
-    if (value < min || value > max) this.fail(path, `must lie in [${min}, ${max}] (received ${value})`);
-    return value;
-  }
-
-  integer(value: unknown, path: string, min: number, max: number): number {
-    if (typeof value !== 'number' || !Number.isInteger(value) || value < min || value > max) {
-      this.fail(path, `must be an integer from ${min} to ${max} (received ${JSON.stringify(value)})`);
-    }
-    return value;
-  }
-
-  string(value: unknown, path: string): string {
-    if (typeof value !== 'string' || value.length > 10_000) this.fail(path, 'must be a string of at most 10,000 characters');
-    return value;
-  }
 }

@@ -1,7 +1,8 @@
-import { RectboostError } from '../errors.js';
+import { FieldChecks } from '../check.js';
 import type { DetectorCascade } from '../detect/detector-cascade.js';
 import { detectorCascadeFromModel } from '../detect/detector-cascade.js';
 import type { CascadeModel } from './cascade-model.js';
+import { parseModelText } from './model-json.js';
 
 /** Value of the runtime file's `format` field. */
 export const RUNTIME_CASCADE_FORMAT = 'rectboost-runtime-cascade';
@@ -78,82 +79,45 @@ export function runtimeFileFromDetector(cascade: DetectorCascade): RuntimeCascad
  * @throws RectboostError `bad-model` naming the label and the field.
  */
 export function parseRuntimeCascade(text: string, label: string): DetectorCascade {
-  let raw: unknown;
-  try {
-    raw = JSON.parse(text);
-  } catch (error) {
-    throw new RectboostError('bad-model', `Cascade file ${label} is not valid JSON (${(error as Error).message}); pass a file written by rectboost export.`, { cause: error });
-  }
-  return runtimeCascadeFromValue(raw, label);
+  return runtimeCascadeFromValue(parseModelText(text, label), label);
 }
 
 /** Validates an already-parsed runtime file; see parseRuntimeCascade. */
 export function runtimeCascadeFromValue(raw: unknown, label: string): DetectorCascade {
-  const fail = (field: string, expected: string, received: unknown): never => {
-    throw new RectboostError('bad-model', `Cascade file ${label}: field ${field} must be ${expected}; received ${describe(received)}. Re-export the model with rectboost export.`);
-  };
-  const file = asObject(raw, 'the top level', fail);
-  if (file['format'] !== RUNTIME_CASCADE_FORMAT) fail('format', `"${RUNTIME_CASCADE_FORMAT}"`, file['format']);
-  if (file['version'] !== RUNTIME_CASCADE_VERSION) fail('version', String(RUNTIME_CASCADE_VERSION), file['version']);
-  if (file['normalization'] !== 'window-standard-deviation') fail('normalization', '"window-standard-deviation"', file['normalization']);
-  const window = asObject(file['window'], 'window', fail);
-  const windowWidth = integerIn(window['width'], 1, RUNTIME_LIMITS.windowSide, 'window.width', fail);
-  const windowHeight = integerIn(window['height'], 1, RUNTIME_LIMITS.windowSide, 'window.height', fail);
-  const stages = arrayUpTo(file['stages'], RUNTIME_LIMITS.stages, 'stages', fail).map((stageValue, s) => {
-    const stage = asObject(stageValue, `stages[${s}]`, fail);
-    const threshold = finite(stage['threshold'], `stages[${s}].threshold`, fail);
-    const weakClassifiers = arrayUpTo(stage['classifiers'], RUNTIME_LIMITS.classifiersPerStage, `stages[${s}].classifiers`, fail).map((weakValue, w) => {
+  const v = new FieldChecks({ code: 'bad-model', source: `Cascade file ${label}`, remedy: 'Re-export the model with rectboost export.' });
+  const file = v.object(raw, '', ['format', 'version', 'window', 'normalization', 'stages'], []);
+  v.constant(file['format'], 'format', RUNTIME_CASCADE_FORMAT);
+  v.constant(file['version'], 'version', RUNTIME_CASCADE_VERSION);
+  v.constant(file['normalization'], 'normalization', 'window-standard-deviation');
+  const window = v.object(file['window'], 'window', ['width', 'height'], []);
+  const windowWidth = v.integer(window['width'], 'window.width', 1, RUNTIME_LIMITS.windowSide);
+  const windowHeight = v.integer(window['height'], 'window.height', 1, RUNTIME_LIMITS.windowSide);
+  const stages = v.array(file['stages'], 'stages', RUNTIME_LIMITS.stages).map((stageValue, s) => {
+    const stage = v.object(stageValue, `stages[${s}]`, ['threshold', 'classifiers'], []);
+    const threshold = v.finite(stage['threshold'], `stages[${s}].threshold`);
+    const weakClassifiers = v.array(stage['classifiers'], `stages[${s}].classifiers`, RUNTIME_LIMITS.classifiersPerStage).map((weakValue, w) => {
       const where = `stages[${s}].classifiers[${w}]`;
-      const weak = asObject(weakValue, where, fail);
-      const rectangleValues = arrayUpTo(weak['rectangles'], RUNTIME_LIMITS.rectanglesPerClassifier, `${where}.rectangles`, fail);
-      if (rectangleValues.length === 0) fail(`${where}.rectangles`, 'a non-empty array', rectangleValues);
+      const weak = v.object(weakValue, where, ['rectangles', 'split', 'below', 'above'], []);
+      const rectangleValues = v.array(weak['rectangles'], `${where}.rectangles`, RUNTIME_LIMITS.rectanglesPerClassifier);
+      if (rectangleValues.length === 0) v.expected(`${where}.rectangles`, 'a non-empty array', rectangleValues);
       const rectangles = rectangleValues.map((value, r) => {
         const field = `${where}.rectangles[${r}]`;
-        if (!Array.isArray(value) || value.length !== 5) return fail(field, '[x, y, width, height, weight]', value);
-        const x = integerIn(value[0], 0, windowWidth - 1, `${field}[0] (x)`, fail);
-        const y = integerIn(value[1], 0, windowHeight - 1, `${field}[1] (y)`, fail);
-        const width = integerIn(value[2], 1, windowWidth - x, `${field}[2] (width, inside the window)`, fail);
-        const height = integerIn(value[3], 1, windowHeight - y, `${field}[3] (height, inside the window)`, fail);
-        const weight = finite(value[4], `${field}[4] (weight)`, fail);
+        if (!Array.isArray(value) || value.length !== 5) return v.expected(field, '[x, y, width, height, weight]', value);
+        const x = v.integer(value[0], `${field}[0] (x)`, 0, windowWidth - 1);
+        const y = v.integer(value[1], `${field}[1] (y)`, 0, windowHeight - 1);
+        const width = v.integer(value[2], `${field}[2] (width, inside the window)`, 1, windowWidth - x);
+        const height = v.integer(value[3], `${field}[3] (height, inside the window)`, 1, windowHeight - y);
+        const weight = v.finite(value[4], `${field}[4] (weight)`);
         return { x, y, width, height, weight };
       });
       return {
         rectangles,
-        splitValue: finite(weak['split'], `${where}.split`, fail),
-        belowOutput: finite(weak['below'], `${where}.below`, fail),
-        aboveOutput: finite(weak['above'], `${where}.above`, fail),
+        splitValue: v.finite(weak['split'], `${where}.split`),
+        belowOutput: v.finite(weak['below'], `${where}.below`),
+        aboveOutput: v.finite(weak['above'], `${where}.above`),
       };
     });
     return { threshold, weakClassifiers };
   });
   return { windowWidth, windowHeight, stages };
-}
-
-type Fail = (field: string, expected: string, received: unknown) => never;
-
-function asObject(value: unknown, field: string, fail: Fail): Record<string, unknown> {
-  if (typeof value !== 'object' || value === null || Array.isArray(value)) return fail(field, 'an object', value);
-  return value as Record<string, unknown>;
-}
-
-function arrayUpTo(value: unknown, limit: number, field: string, fail: Fail): unknown[] {
-  if (!Array.isArray(value)) return fail(field, 'an array', value);
-  if (value.length > limit) return fail(field, `an array of at most ${limit} entries`, `${value.length} entries`);
-  return value;
-}
-
-function finite(value: unknown, field: string, fail: Fail): number {
-  if (typeof value !== 'number' || !Number.isFinite(value)) return fail(field, 'a finite number', value);
-  return value;
-}
-
-function integerIn(value: unknown, min: number, max: number, field: string, fail: Fail): number {
-  if (typeof value !== 'number' || !Number.isInteger(value) || value < min || value > max) return fail(field, `an integer from ${min} to ${max}`, value);
-  return value;
-}
-
-function describe(value: unknown): string {
-  if (value === undefined) return 'nothing';
-  const text = JSON.stringify(value);
-  return text === undefined ? String(value) : text.length > 60 ? `${text.slice(0, 57)}...` : text;
 }

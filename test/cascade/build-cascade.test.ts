@@ -63,14 +63,12 @@ describe('cascade training (in process, generated data)', () => {
     // and the fresh rate after 4 stages 3.7×. Allowing 1.6× per stage and 1.5× noise gives
     // 1.6^K · 1.5 ≈ 9.8 for K = 4: within an order of magnitude, as the counts allow.
     const K = result.stages.length;
-    console.log(result.stages.map((s, k) => `stage ${k + 1}: training f ${s.training!.falsePositiveRate}, mined ${s.training!.negatives}/${s.training!.windowsScanned}`).join('; '));
     expect(measured).toBeGreaterThan(product / 3);
     expect(measured).toBeLessThan(product * 1.6 ** K * 1.5);
     // And the cascade keeps most fresh positives: about d^K (Viola & Jones 2001 §5).
     const kept = acceptSamples(detectorCascadeFromModel({ window: { width: SIDE, height: SIDE }, stages: result.stages }), packWindowSamples(fresh.positives, SIDE, SIDE));
     const detection = kept.reduce((n, p) => n + p, 0) / fresh.positives.length;
     expect(detection).toBeGreaterThan(0.99 ** result.stages.length - 0.08);
-    console.log(`stages ${result.stages.length}, product ${product.toExponential(3)}, measured ${measured.toExponential(3)}, fresh detection ${detection.toFixed(3)}`);
   });
 
   it('gives identical stages when resumed from its first two stages', async () => {

@@ -50,7 +50,6 @@ describeWithReferenceData('Fashion-MNIST trouser against the rest', needed.map((
   let detections: DetectionEvaluation;
 
   beforeAll(async () => {
-    const started = performance.now();
     const train = await loadFashionMnist(FOLDER, 'train');
     test = await loadFashionMnist(FOLDER, 'test');
 
@@ -91,7 +90,6 @@ describeWithReferenceData('Fashion-MNIST trouser against the rest', needed.map((
     });
     model = { window: { width: SIDE, height: SIDE }, stages: result.stages };
     detector = detectorCascadeFromModel(model);
-    const trained = performance.now();
 
     // Patch level: every one of the 10,000 test items, trousers against the other nine classes.
     const testTrousers = test.images.filter((_, i) => test.labels[i] === TROUSER);
@@ -108,13 +106,6 @@ describeWithReferenceData('Fashion-MNIST trouser against the rest', needed.map((
         return { detections: mergeDetections(hits, { method: 'nms', overlap: 0.3 }), truth };
       }),
       0.5,
-    );
-    console.log(
-      `fashion-mnist trouser: ${result.stages.length} stages (${result.stages.map((s) => s.weakClassifiers.length).join('+')} weak), stop ${result.stopReason}, ` +
-        `training ${((trained - started) / 1000).toFixed(1)} s, evaluation ${((performance.now() - trained) / 1000).toFixed(1)} s; ` +
-        `patch detection ${patches.detectionRate.toFixed(4)}, false positives ${patches.falsePositiveRate.toFixed(4)}, ROC area ${patches.roc.area.toFixed(4)}, ` +
-        `detection at 1 % false positives ${truePositiveRateAt(patches.roc, 0.01).toFixed(4)}; ` +
-        `scenes: ${detections.truthCount} trousers, ${detections.detectionCount} detections, ${detections.truePositives} true, AP ${detections.averagePrecision.toFixed(4)}`,
     );
   });
 

@@ -48,7 +48,6 @@ describeWithReferenceData('faces vs non-faces: lfw_subset.npy with scikit-image 
   let evaluation: PatchEvaluation;
 
   beforeAll(async () => {
-    const started = performance.now();
     const subset = await loadLfwSubset(REFERENCE_DATA + 'lfw_subset.npy');
     // Even-numbered faces train, odd-numbered ones are held out; the 100 non-faces are used
     // only for testing (the cascade never sees them).
@@ -81,12 +80,6 @@ describeWithReferenceData('faces vs non-faces: lfw_subset.npy with scikit-image 
     });
     model = { window: { width: SIDE, height: SIDE }, stages: result.stages };
     evaluation = evaluatePatches(detectorCascadeFromModel(model), packWindowSamples(heldOutFaces, SIDE, SIDE), packWindowSamples(nonFaces, SIDE, SIDE));
-    console.log(
-      `lfw: ${result.stages.length} stages (${result.stages.map((s) => s.weakClassifiers.length).join('+')} weak), stop ${result.stopReason}; ` +
-        `held-out detection ${evaluation.detectionRate}, non-face false positives ${evaluation.falsePositiveRate}, ROC area ${evaluation.roc.area.toFixed(4)}; ` +
-        `${((performance.now() - started) / 1000).toFixed(1)} s`,
-    );
-    console.log(result.reports.map((r) => `stage ${r.stageIndex + 1}: d ${r.detectionRate.toFixed(3)} f ${r.falsePositiveRate.toFixed(3)} mined ${r.negatives}/${r.windowsScanned}`).join('; '));
   });
 
   afterAll(async () => {
@@ -116,12 +109,14 @@ describeWithReferenceData('faces vs non-faces: lfw_subset.npy with scikit-image 
     expect(evaluation.roc.area).toBeGreaterThanOrEqual(0.93);
   });
 
-  it('rejects more non-faces with every stage it adds (the cascade principle, Viola & Jones 2004)', () => {
-    // Negatives reaching stage k+1 are those reaching stage k times its pass rate, so the
-    // counts can only fall; a stage that passes every non-face would be dead weight.
-    const reaching = evaluation.stages.map((stage) => stage.negativesReaching);
-    for (let k = 1; k < reaching.length; k++) expect(reaching[k]!).toBeLessThanOrEqual(reaching[k - 1]!);
-    expect(evaluation.stages[0]!.negativePassRate).toBeLessThan(1);
+  it('rejects at least one non-face at every stage that non-faces reach (the cascade principle, Viola & Jones 2004)', () => {
+    // A stage that passes every non-face reaching it is dead weight: its pass rate is 1.
+    // Measured (seeded, as above): 100 non-faces reach stage 1, 12 stage 2, 10 stage 3, 1 stage 4,
+    // and none get past it. Checked to fail when stage 2 is made to pass everything (threshold −∞).
+    expect(evaluation.stages[0]!.negativesReaching).toBe(nonFaces.length);
+    for (const stage of evaluation.stages) {
+      if (stage.negativesReaching > 0) expect(stage.negativePassRate, `stage ${stage.stage + 1}`).toBeLessThan(1);
+    }
   });
 
   it('reports per-stage pass rates that agree with stagesPassed', () => {

@@ -10,7 +10,7 @@ import { formatDetectionLine } from '../../parallel/detections-file.js';
 import { DETECTION_COLOUR, drawBoxes } from '../../io/draw-boxes.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
 import { detectEntries, type ImageDetections } from '../../parallel/detect-files.js';
-import { loadCascadeFile } from '../../io/model-file.js';
+import { loadModelFile } from '../../io/model-file.js';
 import { openShardOutput, type ShardOutput } from '../../parallel/shard-output.js';
 import { parseShard, shardFromEnvironment, WHOLE_LIST } from '../../data/shard.js';
 import { formatCount, createProgressLine } from '../progress.js';
@@ -65,7 +65,7 @@ export function registerDetectCommand(program: Command): void {
       if (!listed && (options.shard !== undefined || options.shardDir !== undefined)) throw new RectboostError('invalid-option', '--shard and --shard-dir work on an image list; add --list FILE.');
       if (options.shardDir !== undefined && options.out !== undefined) throw new RectboostError('invalid-option', '--shard-dir writes the shard file itself; drop --out (join the shards with rectboost join).');
       const shard = !listed ? WHOLE_LIST : options.shard !== undefined ? parseShard('--shard', options.shard) : (shardFromEnvironment(process.env) ?? WHOLE_LIST);
-      const { detector } = await loadCascadeFile(modelPath);
+      const { detector } = await loadModelFile(modelPath, { require: 'any-cascade' });
       const files = listed ? [] : await listImageFilesOfAll(paths);
       if (!listed && files.length === 0) throw new RectboostError('bad-data', `No image files (PNG, JPEG, TIFF, WebP) under ${paths.join(', ')}.`);
       // What must not change between the shards of one folder: a full model and its runtime export count as one cascade.

@@ -6,7 +6,7 @@ import type { ScanStatistics } from '../../detect/scan-image.js';
 import { RectboostError } from '../../errors.js';
 import { packWindowSamples } from '../../features/window-samples.js';
 import { writeFileAtomic } from '../../io/atomic-write.js';
-import { loadCascadeFile } from '../../io/model-file.js';
+import { loadModelFile } from '../../io/model-file.js';
 import type { ReportInputs } from '../../io/report-files.js';
 import { evaluateDetections, summarizeScans } from '../../metrics/detection-evaluation.js';
 import type { Box } from '../../metrics/intersection-over-union.js';
@@ -128,7 +128,7 @@ export function registerEvaluateCommand(program: Command): void {
       if (options.errors !== undefined && options.truth === undefined) {
         throw new RectboostError('invalid-option', '--errors writes the crops of scene detections; use it with --truth FILE.');
       }
-      const loaded = await loadCascadeFile(modelPath);
+      const loaded = await loadModelFile(modelPath, { require: 'any-cascade' });
       const run = (await runEvaluation('evaluate', modelPath, loaded.detector, options, true))!;
       const lines = [...run.lines];
       const detection = run.reportParts.detection;

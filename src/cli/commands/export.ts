@@ -4,7 +4,7 @@ import type { Command } from 'commander';
 import { cWorkBytes, exportCDetector } from '../../cascade/c-export.js';
 import { runtimeCascadeFromValue, runtimeFileFromDetector } from '../../cascade/runtime-export.js';
 import { writeFileAtomic } from '../../io/atomic-write.js';
-import { loadCascadeFile } from '../../io/model-file.js';
+import { loadModelFile } from '../../io/model-file.js';
 import { parseInteger, parseWindowSize } from '../parse-options.js';
 
 /** Where the shared C detector code lives in the package (runtime-c/ beside dist/). */
@@ -33,7 +33,7 @@ export function registerExportCommand(program: Command): void {
     .action(async (modelPath: string, options: { out?: string; c?: string; cImage: string; cHits: string }) => {
       const image = parseWindowSize('--c-image', options.cImage, 1, 1 << 16);
       const hits = parseInteger('--c-hits', options.cHits, 1, 1 << 28);
-      const { detector } = await loadCascadeFile(modelPath);
+      const { detector } = await loadModelFile(modelPath, { require: 'any-cascade' });
       const classifiers = detector.stages.reduce((n, stage) => n + stage.weakClassifiers.length, 0);
       const summary = `${detector.stages.length} stages, ${classifiers} weak classifiers, ${detector.windowWidth}×${detector.windowHeight} window`;
       if (options.out === undefined && options.c === undefined) {

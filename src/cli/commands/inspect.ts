@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import { writeFileAtomic } from '../../io/atomic-write.js';
 import { drawModelFeatureSheet } from '../../io/draw-features.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
-import { loadFullModel } from '../../io/model-file.js';
+import { loadModelFile } from '../../io/model-file.js';
 import { parseInteger } from '../parse-options.js';
 
 function percent(value: number | undefined): string {
@@ -24,7 +24,7 @@ export function registerInspectCommand(program: Command): void {
       const stagesToDraw = parseInteger('--stages', options.stages, 1, 100);
       const featuresToDraw = parseInteger('--features', options.features, 1, 100);
       const zoom = parseInteger('--zoom', options.zoom, 1, 32);
-      const model = await loadFullModel(modelPath, 'inspect');
+      const { model } = await loadModelFile(modelPath, { require: 'full-model', neededBy: 'rectboost inspect' });
       const out: string[] = [];
       out.push(`${modelPath}: ${model.window.width}×${model.window.height} window, ${model.featureSet} features, ${model.stages.length} stages`);
       out.push('stage  weak  threshold     detection  false-pos  cumulative-fp');

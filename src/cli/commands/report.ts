@@ -1,6 +1,6 @@
 import { basename } from 'node:path';
 import type { Command } from 'commander';
-import { loadCascadeFile } from '../../io/model-file.js';
+import { loadModelFile } from '../../io/model-file.js';
 import { assembleReportContent, writeReportFiles, type ReportInputs } from '../../io/report-files.js';
 import { addEvaluationOptions, runEvaluation, type EvaluationFlags } from './evaluate.js';
 
@@ -39,7 +39,7 @@ export function registerReportCommand(program: Command): void {
   addReportOptions(addEvaluationOptions(command), '--out')
     .addHelpText('after', '\nExamples:\n  rectboost report model.json --out model.html\n  rectboost report model.json --truth scenes/truth.jsonl --out report.html --plots plots\n  rectboost report model.json --positives patches/rivets --negatives patches/panels --out patches.html\n')
     .action(async (modelPath: string, options: EvaluationFlags & { out?: string; plots?: string }) => {
-      const loaded = await loadCascadeFile(modelPath);
+      const loaded = await loadModelFile(modelPath, { require: 'any-cascade' });
       const run = await runEvaluation('report', modelPath, loaded.detector, options, false);
       const flags: ReportFlags = { report: options.out ?? 'report.html', ...(options.plots === undefined ? {} : { plots: options.plots }) };
       await writeReportFromInputs(flags, { modelPath, ...loaded, writtenBy: `rectboost report, ${new Date().toISOString()}`, ...(run?.reportParts ?? {}) });

@@ -7,7 +7,7 @@ import { RectboostError } from '../../errors.js';
 import { packWindowSamples } from '../../features/window-samples.js';
 import { saveCascadeModel } from '../../io/model-file.js';
 import { createScanPool } from '../../parallel/scan-pool.js';
-import { loadFullModel } from '../../io/model-file.js';
+import { loadModelFile } from '../../io/model-file.js';
 import { parseInteger, parseNumber } from '../parse-options.js';
 
 const rate = (value: number): string => `${(100 * value).toFixed(2)}%`;
@@ -35,7 +35,7 @@ export function registerTuneCommand(program: Command): void {
       const finalStageOffset = options.finalOffset === undefined ? undefined : parseNumber('--final-offset', options.finalOffset, -1e12, 1e12);
       const scan = { scaleStep: parseNumber('--scale-step', options.scaleStep, 1.0001, 4), shift: parseNumber('--shift', options.shift, 0.01, 64) };
       const workers = options.workers === undefined ? undefined : parseInteger('--workers', options.workers, 0, 256);
-      const model = await loadFullModel(modelPath, 'tune');
+      const { model } = await loadModelFile(modelPath, { require: 'full-model', neededBy: 'rectboost tune' });
       const { windows } = await loadPositiveWindows(options.positives, { windowWidth: model.window.width, windowHeight: model.window.height, mirror: false, skipBad: false });
       const samples = packWindowSamples(windows, model.window.width, model.window.height);
       const result = retuneCascade(model, samples, {
