@@ -16,11 +16,23 @@
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import seedrandom from 'seedrandom';
-import {
-  BackgroundWindows, computeIntegralImage, createBoostingPool, decodeGrayImageFile, detectorCascadeFromModel, evaluateDetections,
-  evaluatePatches, listImageFiles, loadAnnotations, loadFashionMnist, loadLfwSubset, mergeDetections, packWindowSamples,
-  resizeGrayImage, sampleUniformNegatives, scanImage, trainCascade, truePositiveRateAt,
-} from '../../dist/index.js';
+import { trainCascade } from '../../dist/cascade/build-cascade.js';
+import { BackgroundWindows, sampleUniformNegatives } from '../../dist/cascade/negative-mining.js';
+import { loadAnnotations } from '../../dist/data/annotations.js';
+import { loadFashionMnist } from '../../dist/data/fashion-mnist.js';
+import { loadLfwSubset } from '../../dist/data/lfw-subset.js';
+import { listImageFiles } from '../../dist/data/list-images.js';
+import { detectorCascadeFromModel } from '../../dist/detect/detector-cascade.js';
+import { mergeDetections } from '../../dist/detect/merge-detections.js';
+import { scanImage } from '../../dist/detect/scan-image.js';
+import { packWindowSamples } from '../../dist/features/window-samples.js';
+import { resizeGrayImage } from '../../dist/image/gray-image.js';
+import { computeIntegralImage } from '../../dist/image/integral-image.js';
+import { decodeGrayImageFile } from '../../dist/io/decode-image.js';
+import { evaluateDetections } from '../../dist/metrics/detection-evaluation.js';
+import { evaluatePatches } from '../../dist/metrics/patch-evaluation.js';
+import { truePositiveRateAt } from '../../dist/metrics/roc-curve.js';
+import { createBoostingPool } from '../../dist/parallel/boosting-pool.js';
 import { generateBackground } from '../demo/generate.js';
 
 export const title = 'Detector accuracy by training option (real data; choose defaults from it)';

@@ -7,7 +7,10 @@
 // span, which stays comparable on a busy machine. The load average is printed first.
 import os from 'node:os';
 import seedrandom from 'seedrandom';
-import { createBoostingPool, enumerateFeatures, packWindowSamples, trainStage } from '../../dist/index.js';
+import { trainStage } from '../../dist/boost/train-stage.js';
+import { enumerateFeatures } from '../../dist/features/enumerate-features.js';
+import { packWindowSamples } from '../../dist/features/window-samples.js';
+import { createBoostingPool } from '../../dist/parallel/boosting-pool.js';
 
 export const title = 'Boosting engine: response matrix and weak-learner search';
 

@@ -14,9 +14,12 @@
 // compiles quickly and then optimizes in the background; the very first scan
 // of the process, printed apart, shows that start-up cost.
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
-import {
-  computeIntegralImage, cropGrayImage, decodeGrayImageFile, detectorCascadeFromModel, mergeDetections, resizeGrayImage, scanImage,
-} from '../../dist/index.js';
+import { detectorCascadeFromModel } from '../../dist/detect/detector-cascade.js';
+import { mergeDetections } from '../../dist/detect/merge-detections.js';
+import { scanImage } from '../../dist/detect/scan-image.js';
+import { cropGrayImage, resizeGrayImage } from '../../dist/image/gray-image.js';
+import { computeIntegralImage } from '../../dist/image/integral-image.js';
+import { decodeGrayImageFile } from '../../dist/io/decode-image.js';
 
 export const title = 'Multiscale detection, one core, 640×480 images, trained 8-stage cascade';
 

@@ -1,7 +1,9 @@
 // Feature evaluation throughput on one core: all 162,336 basic features of a
 // 24×24 window on seeded random windows, through the compiled corner lists.
 import seedrandom from 'seedrandom';
-import { compileFeatures, enumerateFeatures, evaluateCompiledFeature, packWindowSamples } from '../../dist/index.js';
+import { compileFeatures, evaluateCompiledFeature } from '../../dist/features/compiled-features.js';
+import { enumerateFeatures } from '../../dist/features/enumerate-features.js';
+import { packWindowSamples } from '../../dist/features/window-samples.js';
 
 export const title = 'Haar-like feature evaluation, one core';
 

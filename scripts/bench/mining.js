@@ -5,7 +5,9 @@
 // Options: --runs=N (default 3).
 import os from 'node:os';
 import seedrandom from 'seedrandom';
-import { BackgroundWindows, loadBackgroundImages, loadModelFile, mineHardNegatives } from '../../dist/index.js';
+import { BackgroundWindows, mineHardNegatives } from '../../dist/cascade/negative-mining.js';
+import { loadBackgroundImages } from '../../dist/data/backgrounds.js';
+import { loadModelFile } from '../../dist/io/model-file.js';
 
 export const title = 'Negative mining through the scan kernel (demo backgrounds, 8-stage demo cascade)';
 

@@ -9,7 +9,7 @@
 import { mkdtempSync, rmSync } from 'node:fs';
 import os from 'node:os';
 import { join } from 'node:path';
-import { createBoostingPool } from '../../dist/index.js';
+import { createBoostingPool } from '../../dist/parallel/boosting-pool.js';
 import { renderTable } from '../../dist/cli/text-table.js';
 import { compareAccuracy } from '../peers/compare-accuracy.js';
 import { compareBoostingRound } from '../peers/compare-boosting-round.js';

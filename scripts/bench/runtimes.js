@@ -15,7 +15,11 @@ import { existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { computeIntegralImage, decodeGrayImageFile, detectorCascadeFromModel, mergeDetections, scanImage } from '../../dist/index.js';
+import { detectorCascadeFromModel } from '../../dist/detect/detector-cascade.js';
+import { mergeDetections } from '../../dist/detect/merge-detections.js';
+import { scanImage } from '../../dist/detect/scan-image.js';
+import { computeIntegralImage } from '../../dist/image/integral-image.js';
+import { decodeGrayImageFile } from '../../dist/io/decode-image.js';
 import { scanImagePlain } from '../../dist/runtime/index.js';
 import { compileC, compilerVersion, exportC, writePgm } from '../c-detector/build.js';
 

@@ -15,7 +15,8 @@ import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'nod
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import sharp from 'sharp';
-import { cropGrayImage, decodeGrayImageFile, resizeGrayImage } from '../../dist/index.js';
+import { cropGrayImage, resizeGrayImage } from '../../dist/image/gray-image.js';
+import { decodeGrayImageFile } from '../../dist/io/decode-image.js';
 
 export const title = 'Slurm job array: detection throughput per task, 640×480 JPEG images';
 export const onlyWith = '--slurm';

@@ -7,9 +7,11 @@
 // Resident memory is sampled every 50 ms from process.memoryUsage().rss (the whole process,
 // worker threads included). Needs reference-data/fashion-mnist (scripts/fetch-reference-data.sh).
 import os from 'node:os';
-import {
-  createBoostingPool, createGrayImage, enumerateFeatures, loadFashionMnist, trainCascade,
-} from '../../dist/index.js';
+import { trainCascade } from '../../dist/cascade/build-cascade.js';
+import { loadFashionMnist } from '../../dist/data/fashion-mnist.js';
+import { enumerateFeatures } from '../../dist/features/enumerate-features.js';
+import { createGrayImage } from '../../dist/image/gray-image.js';
+import { createBoostingPool } from '../../dist/parallel/boosting-pool.js';
 
 export const title = 'Training at a realistic size (Fashion-MNIST, 28×28)';
 

@@ -2,15 +2,12 @@
 // Discrete AdaBoost over its 8-bit response matrix (one boosted stage, no cascade)
 // against scikit-learn's SAMME AdaBoost with depth-1 trees on the same float values.
 import { join } from 'node:path';
-import {
-  boostRounds,
-  buildResponseMatrix,
-  compileFeatures,
-  enumerateFeatures,
-  evaluateCompiledFeature,
-  packWindowSamples,
-  writeNpyFile,
-} from '../../dist/index.js';
+import { boostRounds } from '../../dist/boost/adaboost.js';
+import { buildResponseMatrix } from '../../dist/boost/response-matrix.js';
+import { writeNpyFile } from '../../dist/data/npy-writer.js';
+import { compileFeatures, evaluateCompiledFeature } from '../../dist/features/compiled-features.js';
+import { enumerateFeatures } from '../../dist/features/enumerate-features.js';
+import { packWindowSamples } from '../../dist/features/window-samples.js';
 import { faceSplit } from './patch-sets.js';
 import { runPeer } from './python-peer.js';
 import { normalizedValues } from './rectboost-side.js';

@@ -2,7 +2,9 @@
 // histogram split search (all workers, and one thread) against scikit-learn's
 // AdaBoostClassifier(DecisionTreeClassifier(max_depth=1), n_estimators=1, SAMME).fit.
 import { join } from 'node:path';
-import { createSplitScratch, enumerateFeatures, writeNpyFile } from '../../dist/index.js';
+import { createSplitScratch } from '../../dist/boost/best-split.js';
+import { writeNpyFile } from '../../dist/data/npy-writer.js';
+import { enumerateFeatures } from '../../dist/features/enumerate-features.js';
 import { boostingSamples } from './patch-sets.js';
 import { runPeer } from './python-peer.js';
 import { boostingRound, buildMatrixInPool, checkMatrixAgainstValues, median, normalizedValues, uniformWeights } from './rectboost-side.js';

@@ -2,15 +2,11 @@
 // rectboost's pooled response-matrix build against scikit-image's haar_like_feature,
 // after checking that the two compute the same values.
 import { join } from 'node:path';
-import {
-  compileFeatures,
-  computeIntegralImage,
-  enumerateFeatures,
-  evaluateCompiledFeature,
-  readNpyFile,
-  rectangleSum,
-  writeNpyFile,
-} from '../../dist/index.js';
+import { readNpyFile } from '../../dist/data/npy-reader.js';
+import { writeNpyFile } from '../../dist/data/npy-writer.js';
+import { compileFeatures, evaluateCompiledFeature } from '../../dist/features/compiled-features.js';
+import { enumerateFeatures } from '../../dist/features/enumerate-features.js';
+import { computeIntegralImage, rectangleSum } from '../../dist/image/integral-image.js';
 import { featurePatches, stackPixels } from './patch-sets.js';
 import { runPeer } from './python-peer.js';
 import { buildMatrixInPool, median } from './rectboost-side.js';

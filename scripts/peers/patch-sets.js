@@ -4,7 +4,9 @@
 import { readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import seedrandom from 'seedrandom';
-import { cropGrayImage, decodeGrayImageFile, loadLfwSubset, mirrorGrayImage } from '../../dist/index.js';
+import { loadLfwSubset } from '../../dist/data/lfw-subset.js';
+import { cropGrayImage, mirrorGrayImage } from '../../dist/image/gray-image.js';
+import { decodeGrayImageFile } from '../../dist/io/decode-image.js';
 
 export const REFERENCE_DATA = new URL('../../reference-data/', import.meta.url).pathname;
 export const LFW_PATH = join(REFERENCE_DATA, 'lfw_subset.npy');

@@ -1,18 +1,13 @@
 // rectboost's half of the comparisons, through the public API in dist/: the
 // response matrix built by the worker pool (DESIGN.md §4), boosting rounds over it,
 // and the plain variance-normalized values that the Python peers receive.
-import {
-  compileFeatures,
-  decideRound,
-  evaluateCompiledFeature,
-  initialWeights,
-  packSampleColumns,
-  packWindowSamples,
-  quantizeResponses,
-  searchBestSplit,
-  stumpOutputs,
-  updateWeights,
-} from '../../dist/index.js';
+import { decideRound, stumpOutputs } from '../../dist/boost/adaboost.js';
+import { searchBestSplit } from '../../dist/boost/best-split.js';
+import { initialWeights, updateWeights } from '../../dist/boost/booster.js';
+import { quantizeResponses } from '../../dist/boost/response-bins.js';
+import { packSampleColumns } from '../../dist/boost/sample-columns.js';
+import { compileFeatures, evaluateCompiledFeature } from '../../dist/features/compiled-features.js';
+import { packWindowSamples } from '../../dist/features/window-samples.js';
 
 const shared = (bytes) => new SharedArrayBuffer(bytes);
 
