@@ -1,6 +1,5 @@
 import { availableParallelism } from 'node:os';
-import type { BoosterKind } from '../boost/booster.js';
-import { DEFAULT_NEGATIVE_PATCH_SHARE, heldOutCount, trainCascade, type CascadeTrainingResult, type TrainingEvent } from '../cascade/build-cascade.js';
+import { DEFAULT_NEGATIVE_PATCH_SHARE, heldOutCount, trainCascade, type CascadeTrainingOptions, type CascadeTrainingResult, type TrainingEvent } from '../cascade/build-cascade.js';
 import { newCascadeModel, type CascadeModel, type Stage } from '../cascade/cascade-model.js';
 import { loadBackgroundImages } from '../data/backgrounds.js';
 import { loadPositiveWindows } from '../data/positives.js';
@@ -12,31 +11,24 @@ import { createBoostingPool } from '../parallel/boosting-pool.js';
 /** Default of `TrainModelOptions.tool`, recorded in every model's provenance. */
 export const TOOL_NAME = 'rectboost 0.1.0';
 
+/** The training targets and limits, as trainCascade documents them (memoryBytes: the cap for the precomputed feature responses, in bytes). */
+type CascadeTargets = Pick<
+  CascadeTrainingOptions,
+  | 'windowWidth' | 'windowHeight' | 'stageDetectionRate' | 'stageFalsePositiveRate' | 'targetFalsePositiveRate' | 'maxStages'
+  | 'maxWeakClassifiers' | 'negativesPerStage' | 'booster' | 'mirror' | 'validationShare' | 'seed' | 'memoryBytes'
+>;
+
 /**
  * Everything one training run needs: where the data is, where the model goes, and the
  * training targets. Defaults are those of `rectboost train` (its --help lists them).
  */
-export interface TrainModelOptions {
+export interface TrainModelOptions extends CascadeTargets {
   /** A folder of positive patches, or an annotation file whose boxes are cropped from full images. */
   readonly positives: string;
   /** A folder of images with no object in them. */
   readonly backgrounds: string;
   /** The model file to write (atomically). */
   readonly out: string;
-  readonly windowWidth: number;
-  readonly windowHeight: number;
-  readonly stageDetectionRate: number;
-  readonly stageFalsePositiveRate: number;
-  readonly targetFalsePositiveRate: number;
-  readonly maxStages: number;
-  readonly maxWeakClassifiers: number;
-  readonly negativesPerStage: number;
-  readonly booster: BoosterKind;
-  readonly mirror: boolean;
-  readonly validationShare: number;
-  readonly seed: number;
-  /** Cap for the precomputed feature responses, in bytes. */
-  readonly memoryBytes: number;
   /** Boosting worker threads (default: all cores); the model does not depend on it. */
   readonly workers?: number;
   /** Where finished stages are saved after every stage (default: OUT without .json, plus .checkpoint). */
