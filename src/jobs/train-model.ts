@@ -19,10 +19,33 @@ type CascadeTargets = Pick<
 >;
 
 /**
- * Everything one training run needs: where the data is, where the model goes, and the
- * training targets. Defaults are those of `rectboost train` (its --help lists them).
+ * The default training targets and limits: the one place they are stated. `rectboost train`
+ * shows them in --help and trainModel fills in every target its caller leaves out.
+ * Sources: stage detection 0.995 and false-positive 0.5 per stage follow Viola & Jones 2001 §4
+ * (each stage keeps nearly all positives and halves the negatives; the exact figures are
+ * common practice); the others were chosen by measurement (README, "Choosing the defaults").
  */
-export interface TrainModelOptions extends CascadeTargets {
+export const TRAINING_DEFAULTS: Readonly<CascadeTargets> = {
+  windowWidth: 24,
+  windowHeight: 24,
+  stageDetectionRate: 0.995,
+  stageFalsePositiveRate: 0.5,
+  targetFalsePositiveRate: 1e-5,
+  maxStages: 20,
+  maxWeakClassifiers: 200,
+  negativesPerStage: 2000,
+  booster: 'gentle',
+  mirror: false,
+  validationShare: 0.2,
+  seed: 1,
+  memoryBytes: 4 * 1024 ** 3,
+};
+
+/**
+ * Everything one training run needs: where the data is, where the model goes, and the
+ * training targets; a target left out takes its value from TRAINING_DEFAULTS.
+ */
+export interface TrainModelOptions extends Partial<CascadeTargets> {
   /** A folder of positive patches, or an annotation file whose boxes are cropped from full images. */
   readonly positives: string;
   /** A folder of images with no object in them. */
@@ -97,13 +120,11 @@ export const INTERRUPTED_STOP_REASON = 'interrupted';
  * @throws RectboostError `bad-data` / `bad-image` for unusable inputs (before training starts),
  *   `bad-data` for a checkpoint of other options or data, `invalid-option` for out-of-range options.
  * @example
- * const { result } = await trainModel({ positives: 'rivets/', backgrounds: 'panels/', out: 'rivets.json',
- *   windowWidth: 24, windowHeight: 24, stageDetectionRate: 0.995, stageFalsePositiveRate: 0.5,
- *   targetFalsePositiveRate: 1e-5, maxStages: 20, maxWeakClassifiers: 200, negativesPerStage: 2000,
- *   booster: 'gentle', mirror: false, validationShare: 0.2, seed: 1, memoryBytes: 4 * 1024 ** 3 });
+ * const { result } = await trainModel({ positives: 'rivets/', backgrounds: 'panels/', out: 'rivets.json', maxStages: 8 });
  */
-export async function trainModel(options: TrainModelOptions): Promise<TrainedModel> {
+export async function trainModel(given: TrainModelOptions): Promise<TrainedModel> {
   const started = performance.now();
+  const options = withTrainingDefaults(given);
   const emit = (event: TrainModelEvent): void => options.onEvent?.(event);
   const window = { width: options.windowWidth, height: options.windowHeight };
   const workers = options.workers ?? availableParallelism();
@@ -248,6 +269,12 @@ export async function trainModel(options: TrainModelOptions): Promise<TrainedMod
   if (written) await saveCascadeModel(options.out, model);
   if (!interrupted) await removeCheckpoint(checkpointDirectory);
   return { model, result, written, checkpointDirectory, seconds: (performance.now() - started) / 1000 };
+}
+
+/** The caller's options with every target it left out (or set to undefined) taken from TRAINING_DEFAULTS. */
+function withTrainingDefaults(given: TrainModelOptions): TrainModelOptions & CascadeTargets {
+  const stated = Object.fromEntries(Object.entries(given).filter(([, value]) => value !== undefined)) as TrainModelOptions;
+  return { ...TRAINING_DEFAULTS, ...stated };
 }
 
 function round3(value: number): number {

@@ -5,7 +5,7 @@ import { DEFAULT_NEGATIVE_PATCH_SHARE, formatRate, type StageReport } from '../.
 import { RectboostError } from '../../errors.js';
 import { detectorCascadeFromModel } from '../../detect/detector-cascade.js';
 import { MAX_WINDOW_SIDE } from '../../features/enumerate-features.js';
-import { TOOL_NAME, trainModel, type TrainedModel, type TrainModelEvent, type TrainModelOptions } from '../../jobs/train-model.js';
+import { TOOL_NAME, TRAINING_DEFAULTS as DEFAULTS, trainModel, type TrainedModel, type TrainModelEvent, type TrainModelOptions } from '../../jobs/train-model.js';
 import { parseChoice, parseInteger, parseNumber, parseWindowSize } from '../parse-options.js';
 import { ProgressLine, formatCount, formatDuration } from '../progress.js';
 import { renderTable } from '../text-table.js';
@@ -48,23 +48,23 @@ export function registerTrainCommand(program: Command): void {
     .option('--positives <path>', 'folder of positive patch images (any size; resized to the window), or an annotation file of boxes on full images')
     .option('--backgrounds <folder>', 'folder of images that contain no object')
     .option('--out <file>', 'where to write the model JSON')
-    .option('--window <WxH>', 'detector window in pixels', '24x24')
-    .option('--stage-detection <rate>', 'minimum detection rate each stage keeps on validation positives', '0.995')
-    .option('--stage-false-positive <rate>', 'maximum false-positive rate each stage lets through', '0.5')
-    .option('--target-false-positive <rate>', 'stop when the product of stage false-positive rates reaches this', '1e-5')
-    .option('--max-stages <count>', 'most stages to train', '20')
-    .option('--max-weak <count>', 'most weak classifiers per stage', '200')
-    .option('--negatives <count>', 'negatives mined for every stage', '2000')
-    .option('--booster <kind>', 'discrete or gentle AdaBoost', 'gentle')
+    .option('--window <WxH>', 'detector window in pixels', `${DEFAULTS.windowWidth}x${DEFAULTS.windowHeight}`)
+    .option('--stage-detection <rate>', 'minimum detection rate each stage keeps on validation positives', String(DEFAULTS.stageDetectionRate))
+    .option('--stage-false-positive <rate>', 'maximum false-positive rate each stage lets through', String(DEFAULTS.stageFalsePositiveRate))
+    .option('--target-false-positive <rate>', 'stop when the product of stage false-positive rates reaches this', String(DEFAULTS.targetFalsePositiveRate))
+    .option('--max-stages <count>', 'most stages to train', String(DEFAULTS.maxStages))
+    .option('--max-weak <count>', 'most weak classifiers per stage', String(DEFAULTS.maxWeakClassifiers))
+    .option('--negatives <count>', 'negatives mined for every stage', String(DEFAULTS.negativesPerStage))
+    .option('--booster <kind>', 'discrete or gentle AdaBoost', DEFAULTS.booster)
     .option('--features <set>', 'feature set: basic (extended is not built yet)', 'basic')
     .option('--mirror', 'add left-right mirrored copies of the positives')
     .option('--augment <copies>', 'seeded augmented copies of every training positive (small shifts, scales, rotations, contrast and brightness)', '0')
     .option('--negative-patches <folder>', 'folder of windows to be rejected (confusable objects, or the false-alarms folder of rectboost evaluate --errors); every stage uses those it still accepts')
     .option('--negative-patch-share <share>', 'largest share of each stage\'s negatives taken from --negative-patches; the rest are mined from the backgrounds', String(DEFAULT_NEGATIVE_PATCH_SHARE))
-    .option('--validation <share>', 'share of positives held out to set stage thresholds', '0.2')
-    .option('--seed <number>', 'seed of every random choice', '1')
+    .option('--validation <share>', 'share of positives held out to set stage thresholds', String(DEFAULTS.validationShare))
+    .option('--seed <number>', 'seed of every random choice', String(DEFAULTS.seed))
     .option('--workers <count>', 'worker threads for boosting (default: all cores)')
-    .option('--memory <GB>', 'cap for the precomputed feature responses', '4')
+    .option('--memory <GB>', 'cap for the precomputed feature responses', String(DEFAULTS.memoryBytes / 1024 ** 3))
     .option('--checkpoint <folder>', 'where finished stages are saved (default: OUT.checkpoint)')
     .option('--resume', 'continue from the checkpoint of an interrupted run with the same options and data')
     .option('--keep-going', 'train on after a stage uses --max-weak weak classifiers without reaching --stage-false-positive (default: stop there and save)')
