@@ -27,22 +27,25 @@ const VISIT_CHUNK = 256;
 /**
  * Background images as a searchable set of windows at every position and scale:
  * every image is shrunk by 1.25^k while the detector window still fits.
- * Level images and their integral tables are built lazily and cached up to a
- * byte budget, so large background sets do not have to fit in memory at once.
+ * Level images are built lazily and cached up to a byte budget (one byte a pixel, so
+ * the whole pyramid of most background sets fits). Integral tables (16 bytes a pixel)
+ * are not cached: mining builds one per sheet when it evaluates the sheet, which costs
+ * far less than the evaluation, and a cache of them was the largest memory of a
+ * training run after the response table (about 0.5 GB for 60 images of 560×560).
  */
 export class BackgroundWindows {
   readonly sheets: readonly PyramidSheet[];
   /** Total number of windows over all sheets. */
   readonly totalWindows: number;
   private readonly cumulative: Float64Array;
-  private readonly cache = new Map<number, { image: GrayImage; integral: IntegralImage }>();
+  private readonly cache = new Map<number, GrayImage>();
   private cachedBytes = 0;
 
   constructor(
     private readonly images: readonly GrayImage[],
     readonly windowWidth: number,
     readonly windowHeight: number,
-    private readonly cacheBudgetBytes = 1024 ** 3,
+    private readonly cacheBudgetBytes = 256 * 1024 ** 2,
   ) {
     const sheets: PyramidSheet[] = [];
     images.forEach((image, imageIndex) => {
@@ -62,8 +65,8 @@ export class BackgroundWindows {
     this.totalWindows = this.cumulative[sheets.length]!;
   }
 
-  /** Level image and integral table of a sheet (built on first use, cached within budget). */
-  level(sheetIndex: number): { image: GrayImage; integral: IntegralImage } {
+  /** Level image of a sheet (built on first use, cached within budget; the source image itself at level 0). */
+  level(sheetIndex: number): GrayImage {
     const hit = this.cache.get(sheetIndex);
     if (hit !== undefined) {
       // Refresh its place for least-recently-used eviction.
@@ -73,18 +76,22 @@ export class BackgroundWindows {
     }
     const sheet = this.sheets[sheetIndex]!;
     const source = this.images[sheet.imageIndex]!;
-    const image = sheet.scale === 1 ? source : resizeGrayImage(source, sheet.width, sheet.height);
-    const entry = { image, integral: computeIntegralImage(image) };
-    const bytes = image.width * image.height * 17;
+    if (sheet.scale === 1) return source;
+    const image = resizeGrayImage(source, sheet.width, sheet.height);
+    const bytes = image.width * image.height;
     while (this.cachedBytes + bytes > this.cacheBudgetBytes && this.cache.size > 0) {
       const oldest = this.cache.keys().next().value as number;
-      const old = this.cache.get(oldest)!;
-      this.cachedBytes -= old.image.width * old.image.height * 17;
+      this.cachedBytes -= this.cache.get(oldest)!.data.length;
       this.cache.delete(oldest);
     }
-    this.cache.set(sheetIndex, entry);
+    this.cache.set(sheetIndex, image);
     this.cachedBytes += bytes;
-    return entry;
+    return image;
+  }
+
+  /** A fresh integral table of a sheet's level image (not cached; see the class comment). */
+  integral(sheetIndex: number): IntegralImage {
+    return computeIntegralImage(this.level(sheetIndex));
   }
 
   /** Sheet index and position of a global window index in [0, totalWindows). */
@@ -101,7 +108,7 @@ export class BackgroundWindows {
 
   /** The window at a position of a sheet, as a windowWidth × windowHeight patch. */
   crop(sheetIndex: number, position: number): GrayImage {
-    const { image } = this.level(sheetIndex);
+    const image = this.level(sheetIndex);
     const columns = image.width - this.windowWidth + 1;
     return cropGrayImage(image, position % columns, Math.floor(position / columns), this.windowWidth, this.windowHeight);
   }
@@ -214,7 +221,7 @@ export function mineHardNegatives(
     for (const walk of walks) {
       if (walk.visited >= walk.n || negatives.length >= wanted) continue;
       if (shouldStop?.()) return result(false);
-      const { image } = backgrounds.level(walk.sheetIndex);
+      const image = backgrounds.level(walk.sheetIndex);
       const columns = image.width - backgrounds.windowWidth + 1;
       const end = Math.min(walk.n, walk.visited + VISIT_CHUNK);
       walk.accepted ??= evaluateSheet(walk, backgrounds, detector, tally);
@@ -236,8 +243,8 @@ export function mineHardNegatives(
 
 /** The kernel's verdict on every window of the walk's sheet (detection's row scan at scale 1). */
 function evaluateSheet(walk: Walk, backgrounds: BackgroundWindows, detector: DetectorCascade, tally: { evaluated: number; seconds: number }): Uint8Array {
+  const integral = backgrounds.integral(walk.sheetIndex);
   const started = performance.now();
-  const { integral } = backgrounds.level(walk.sheetIndex);
   const accepted = new Uint8Array(walk.n);
   const evaluator = new WindowListEvaluator(detector, integral, 1);
   try {

@@ -59,7 +59,7 @@ describe('background windows', () => {
     // Brute force: the twin on every window of every level.
     let accepted = 0;
     backgrounds.sheets.forEach((_, sheetIndex) => {
-      const { image } = backgrounds.level(sheetIndex);
+      const image = backgrounds.level(sheetIndex);
       for (let y = 0; y + 6 <= image.height; y++) for (let x = 0; x + 8 <= image.width; x++) if (twinDepth(cascade, cropGrayImage(image, x, y, 8, 6)).stagesPassed === 1) accepted++;
     });
     expect(mined.negatives.length).toBe(accepted);
