@@ -1,5 +1,5 @@
 import { RectboostError } from '../errors.js';
-import type { DetectorCascade } from '../detect/detector-cascade.js';
+import { isDetectorTree, type DetectorCascade, type DetectorStump, type DetectorWeakClassifier } from '../detect/detector-cascade.js';
 
 /** The texts of runtime-c/ that every export shares: the header with @NAME@ placeholders and the detector code. */
 export interface CDetectorTemplates {
@@ -38,10 +38,11 @@ export const C_INTEGER_MAX_WINDOW_PIXELS = 66051;
  * of the integer build can overflow: with B the largest Σ |weight| · area of a
  * classifier, a feature value is at most 255 · B · 2^Q and is multiplied by
  * n · 2^7 ≤ 66,051 · 128; a split value times 2^7 · n · σ ≤ 2^7 · 66,051 · 127.5.
- * @throws RectboostError `bad-model` when no Q ≥ 4 fits (then the integer build would be too coarse).
+ * @throws RectboostError `bad-model` when no Q ≥ 4 fits (then the integer build would be too coarse),
+ *   or when the cascade has decision trees (the C detector evaluates stumps only).
  */
 export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTemplates, label: string): CDetectorExport {
-  const stages = cascade.stages;
+  const stages = cascade.stages.map((stage, s) => ({ threshold: stage.threshold, weakClassifiers: stumpsOnly(stage.weakClassifiers, s, label) }));
   const classifiers = stages.flatMap((stage) => stage.weakClassifiers);
   const rectangles = classifiers.flatMap((weak) => weak.rectangles);
   const stageEnds: number[] = [];
@@ -56,7 +57,7 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
     classifierCount += stage.weakClassifiers.length;
     stageEnds.push(classifierCount);
   }
-  const valueBits = integerValueBits(cascade, label);
+  const valueBits = integerValueBits(stages, label);
   const scaleValue = 2 ** valueBits;
   const scaleVote = 2 ** C_VOTE_BITS;
   const lines: string[] = [];
@@ -123,7 +124,7 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
  */
 export function cWorkBytes(cascade: DetectorCascade, build: 'float' | 'integer', width: number, height: number, hitCapacity: number): number {
   const align = (bytes: number): number => Math.ceil(bytes / 8) * 8;
-  const rectangles = Math.max(1, cascade.stages.reduce((n, stage) => n + stage.weakClassifiers.reduce((m, weak) => m + weak.rectangles.length, 0), 0));
+  const rectangles = Math.max(1, cascade.stages.reduce((n, stage, s) => n + stumpsOnly(stage.weakClassifiers, s, 'given').reduce((m, weak) => m + weak.rectangles.length, 0), 0));
   const classifiers = Math.max(1, cascade.stages.reduce((n, stage) => n + stage.weakClassifiers.length, 0));
   const entry = build === 'float' ? 8 : 4;
   const entries = (width + 1) * (height + 1);
@@ -132,10 +133,21 @@ export function cWorkBytes(cascade: DetectorCascade, build: 'float' | 'integer',
   return 2 * align(entries * entry) + align(4 * 4 * rectangles) + align(8 * 4 * rectangles) + align(4 * classifiers) + hitCapacity * perHit + 64;
 }
 
-function integerValueBits(cascade: DetectorCascade, label: string): number {
+/** The stumps of one stage; a tree is refused (runtime-c/ has no tree evaluation yet). */
+function stumpsOnly(weakClassifiers: readonly DetectorWeakClassifier[], stageIndex: number, label: string): DetectorStump[] {
+  return weakClassifiers.map((weak, w) => {
+    if (isDetectorTree(weak)) {
+      throw new RectboostError('bad-model',
+        `Cascade ${label} has a decision tree as weak classifier ${w + 1} of stage ${stageIndex + 1}; the C export evaluates decision stumps only. Train with --weak-depth 1 for a C detector, or use the runtime export (rectboost export --format runtime).`);
+    }
+    return weak;
+  });
+}
+
+function integerValueBits(stages: ReadonlyArray<{ readonly weakClassifiers: readonly DetectorStump[] }>, label: string): number {
   let largestSum = 1;
   let largestSplit = 1;
-  for (const stage of cascade.stages) {
+  for (const stage of stages) {
     for (const weak of stage.weakClassifiers) {
       largestSum = Math.max(largestSum, weak.rectangles.reduce((n, r) => n + Math.abs(r.weight) * r.width * r.height, 0) + weak.rectangles.length);
       largestSplit = Math.max(largestSplit, Math.abs(weak.splitValue));

@@ -1,10 +1,11 @@
 import seedrandom from 'seedrandom';
-import type { CascadeModel } from '../../src/cascade/cascade-model.js';
+import { weakClassifierDepth, type CascadeModel, type DecisionStump, type Stage } from '../../src/cascade/cascade-model.js';
 import { resolveScanOptions, scanScales, type ScanOptions, type RawHits, type ScanStatistics } from '../../src/detect/scan-image.js';
 import { enumerateFeatures } from '../../src/features/enumerate-features.js';
 import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
 import type { IntegralImage } from '../../src/image/integral-image.js';
 import { windowStatistics } from '../../src/image/window-statistics.js';
+import { twinWeakOutput } from './window-twin.js';
 
 /** What the twin found: hits as "x,y,width,height,score" strings (score: the evidence, see RawHits) and the scan's counters. */
 export interface TwinScan {
@@ -40,9 +41,10 @@ export function scanTwin(model: CascadeModel, integral: IntegralImage, options: 
         const failedAt = model.stages.findIndex((stage, k) => {
           let score = 0;
           for (const weak of stage.weakClassifiers) {
-            score += evaluateNormalizedFeature(integral, weak.feature, x, y, windowWidth, windowHeight, scale) < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
+            score += twinWeakOutput(weak, (feature) => evaluateNormalizedFeature(integral, feature, x, y, windowWidth, windowHeight, scale));
+            // The scan counts split records: one per stump, 2^d − 1 per tree of depth d (its full heap form).
+            statistics.featuresEvaluated += 2 ** weakClassifierDepth(weak) - 1;
           }
-          statistics.featuresEvaluated += stage.weakClassifiers.length;
           const margin = score - stage.threshold;
           // Evidence: the margins of the stages passed, added in stage order (RawHits).
           evidence = k === 0 ? margin : evidence + margin;
@@ -71,7 +73,7 @@ export function hitStrings(hits: RawHits): string[] {
  * in (−1, 0], above outputs in [0, 1); a lone classifier gets threshold 0 (the only
  * one at which it can reject), larger stages a threshold in (−0.3, 0].
  */
-export function randomCascadeModel(seed: string, stageSizes: number[], window = { width: 12, height: 10 }): CascadeModel {
+export function randomCascadeModel(seed: string, stageSizes: number[], window = { width: 12, height: 10 }): CascadeModel & { readonly stages: ReadonlyArray<Stage & { readonly weakClassifiers: readonly DecisionStump[] }> } {
   const random = seedrandom(seed);
   const features = enumerateFeatures(window.width, window.height);
   return {
