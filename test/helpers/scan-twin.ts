@@ -1,5 +1,6 @@
 import seedrandom from 'seedrandom';
-import { weakClassifierDepth, type CascadeModel, type DecisionStump, type Stage } from '../../src/cascade/cascade-model.js';
+import { weakClassifierDepth, weakClassifierFromTree, type CascadeModel, type DecisionStump, type Stage, type TreeBranch, type TreeSplit, type WeakClassifier } from '../../src/cascade/cascade-model.js';
+import type { HaarFeature } from '../../src/features/haar-feature.js';
 import { resolveScanOptions, scanScales, type ScanOptions, type RawHits, type ScanStatistics } from '../../src/detect/scan-image.js';
 import { enumerateFeatures } from '../../src/features/enumerate-features.js';
 import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
@@ -83,6 +84,31 @@ export function randomCascadeModel(seed: string, stageSizes: number[], window = 
       weakClassifiers: Array.from({ length: size }, () => ({
         feature: features[Math.floor(random() * features.length)]!, splitValue: random() - 0.5, belowOutput: -random(), aboveOutput: random(),
       })),
+    })),
+  };
+}
+
+/**
+ * A cascade of random decision trees (and stumps) on a 12×10 window, seeded: weak
+ * classifier i of stage k is a tree of depth up to `depth` (every third one a stump);
+ * below the root a node ends early with probability ¼, so incomplete trees occur; splits
+ * in [−0.5, 0.5), leaf outputs in [−1, 1); thresholds as in randomCascadeModel.
+ */
+export function randomTreeCascadeModel(seed: string, stageSizes: number[], depth: number, window = { width: 12, height: 10 }): CascadeModel {
+  const random = seedrandom(seed);
+  const features = enumerateFeatures(window.width, window.height);
+  const feature = (): HaarFeature => features[Math.floor(random() * features.length)]!;
+  const branch = (level: number): TreeBranch => {
+    if (level > depth || (level > 1 && random() < 0.25)) return { output: 2 * random() - 1 };
+    return { feature: feature(), splitValue: random() - 0.5, below: branch(level + 1), above: branch(level + 1) };
+  };
+  return {
+    format: 'rectboost-cascade', version: 1, window, normalization: 'window-standard-deviation', featureSet: 'basic',
+    stages: stageSizes.map((size) => ({
+      threshold: size === 1 ? 0 : -0.3 * random(),
+      weakClassifiers: Array.from({ length: size }, (_, i): WeakClassifier => (i % 3 === 2
+        ? { feature: feature(), splitValue: random() - 0.5, belowOutput: -random(), aboveOutput: random() }
+        : weakClassifierFromTree(branch(1) as TreeSplit))),
     })),
   };
 }
