@@ -138,7 +138,7 @@ function stumpsOnly(weakClassifiers: readonly DetectorWeakClassifier[], stageInd
   return weakClassifiers.map((weak, w) => {
     if (isDetectorTree(weak)) {
       throw new RectboostError('bad-model',
-        `Cascade ${label} has a decision tree as weak classifier ${w + 1} of stage ${stageIndex + 1}; the C export evaluates decision stumps only. Train with --weak-depth 1 for a C detector, or use the runtime export (rectboost export --format runtime).`);
+        `Cascade ${label} has a decision tree as weak classifier ${w + 1} of stage ${stageIndex + 1}; the C export evaluates decision stumps only. Train with --weak-depth 1 for a C detector; the runtime JSON export (rectboost export MODEL --out FILE, without --c) handles trees.`);
     }
     return weak;
   });
