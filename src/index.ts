@@ -39,7 +39,7 @@ export { trainModel, type TrainModelOptions, type TrainModelEvent, type TrainedM
 export { retuneCascade, type RetuneOptions, type RetuneResult } from './cascade/retune.js';
 
 // 5. Model files: the model, its runtime export and C99 detector.
-export type { CascadeModel, Stage, WeakClassifier, DecisionStump, DecisionTree, TreeSplit, TreeBranch, TreeLeaf, TrainingProvenance } from './model/cascade-model.js';
+export type { CascadeModel, Stage, WeakClassifier, TrainingProvenance } from './model/cascade-model.js';
 export { loadModelFile, saveCascadeModel, type LoadModelOptions, type LoadedFullModel, type LoadedRuntimeCascade, type ModelRequirement } from './io/model-file.js';
 export { parseCascadeModel } from './cascade/model-json.js';
 export { exportRuntimeCascade, type RuntimeCascadeFile } from './cascade/runtime-export.js';
