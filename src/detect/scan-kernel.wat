@@ -76,7 +76,8 @@
   ;; Windows go four at a time (two f64x2 halves, A and B) through each stage:
   ;; the score is Σ outputs from 0 in classifier order; a classifier's value is
   ;; Σ coefficient · entry over its corners from 0 in corner order, and it adds
-  ;; belowOutput when value · (1/σ) < splitValue, else aboveOutput. A window
+  ;; belowOutput when value · (1/σ) < splitValue, else aboveOutput (a tree adds
+  ;; the output of the leaf its splits lead to, once, after its last record). A window
   ;; passes when its margin, score − threshold, is ≥ 0. A window's evidence is
   ;; the sum of its margins over the stages it passed, added in stage order
   ;; (((m₀ + m₁) + m₂) + …, the first stage's margin alone at the first stage of
