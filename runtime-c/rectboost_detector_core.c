@@ -280,17 +280,36 @@ static int rbd_window(const rbd_work *w, size_t at, int32_t bottom_right, int32_
   for (stage = 0; stage < RBD_STAGE_COUNT; stage++) {
     rbd_score sum_of_votes = 0;
     int32_t stage_end = (int32_t)rbd_stage_end[stage];
+    /* Records of a tree come in heap order; `reached` is the split the window's path is at
+     * (splits off the path are skipped, their corners too). A stump is its own bottom split. */
+    int32_t reached = 0;
     for (; classifier < stage_end; classifier++) {
       int32_t corner_end = w->classifier_corner_end[classifier];
+      int32_t node = (int32_t)(rbd_node_place[classifier] & 0xffffu);
+      int32_t split_count = (int32_t)(rbd_node_place[classifier] >> 16);
+      int below;
+      if (node != reached) {
+        corner = corner_end;
+        if (node == split_count - 1) reached = 0;
+        continue;
+      }
+      {
 #ifdef RBD_INTEGER
       uint64_t value = 0; /* modulo 2^64; the true value is far smaller */
       for (; corner < corner_end; corner++) value += (uint64_t)w->corner_coefficient[corner] * (uint64_t)s[w->corner_offset[corner]];
-      sum_of_votes += (int64_t)value * scaled_count < rbd_split[classifier] * deviation ? rbd_below[classifier] : rbd_above[classifier];
+      below = (int64_t)value * scaled_count < rbd_split[classifier] * deviation;
 #else
       double value = 0;
       for (; corner < corner_end; corner++) value = value + w->corner_coefficient[corner] * s[w->corner_offset[corner]];
-      sum_of_votes = sum_of_votes + (value * inverse < rbd_split[classifier] ? rbd_below[classifier] : rbd_above[classifier]);
+      below = value * inverse < rbd_split[classifier];
 #endif
+      }
+      if (node >= (split_count >> 1)) {
+        sum_of_votes = sum_of_votes + (below ? rbd_below[classifier] : rbd_above[classifier]);
+        reached = node == split_count - 1 ? 0 : -1;
+      } else {
+        reached = 2 * node + (below ? 1 : 2);
+      }
     }
     {
       rbd_score margin = sum_of_votes - rbd_threshold[stage];

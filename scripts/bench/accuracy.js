@@ -47,6 +47,8 @@ const VARIANTS = [
   { key: 'patches', name: '+ negative patches', extra: (task) => (task.patches === undefined ? undefined : { negativePatches: task.patches }) },
   { key: 'augment', name: '+ augment 2', extra: () => ({ augmentCopies: 2 }) },
   { key: 'mirror', name: '+ mirror', extra: () => ({ mirror: true }) },
+  { key: 'depth2', name: 'trees of depth 2', extra: () => ({ weakDepth: 2 }) },
+  { key: 'depth3', name: 'trees of depth 3', extra: () => ({ weakDepth: 3 }) },
 ];
 
 function mosaics(items, labels, objectLabel, side = 28, across = 8) {

@@ -20,6 +20,12 @@ export interface SplitCandidate {
 }
 
 /**
+ * Which criterion a split search minimizes: `stump` the booster's splitErrors (a weak
+ * classifier of depth 1), `tree-node` its nodeSplitErrors (a node of a deeper tree).
+ */
+export type SplitRule = 'stump' | 'tree-node';
+
+/**
  * Finds the best split over features featureStart..featureEnd−1 of a response
  * matrix, or null when no feature in the range has a split (all constant).
  *
@@ -44,6 +50,7 @@ export function searchBestSplit(
   featureStart: number,
   featureEnd: number,
   scratch: Float64Array = createSplitScratch(),
+  rule: SplitRule = 'stump',
 ): SplitCandidate | null {
   const formulas = boosterFormulas(booster);
   const words = binWords(bins, sampleCount);
@@ -53,7 +60,7 @@ export function searchBestSplit(
     const members = Math.min(HISTOGRAM_GROUP, featureEnd - f);
     buildHistogramGroup(bins, words, sampleCount, positiveCount, weights, f, members, scratch);
     for (let member = 0; member < members; member++) {
-      const candidate = scanHistogram(scratch, member * HISTOGRAM_SLOT, f + member, formulas);
+      const candidate = scanHistogram(scratch, member * HISTOGRAM_SLOT, f + member, formulas, rule);
       if (candidate !== null && candidate.error < bestError) {
         bestError = candidate.error;
         best = candidate;
@@ -73,9 +80,10 @@ const EDGE_ERRORS = new Float64Array(BIN_COUNT);
 /**
  * The split scan of one feature: reads its histograms (positives at slot + b,
  * negatives at slot + HISTOGRAM_NEGATIVES + b) and returns its lowest-error split
- * under `formulas`, or null when all its weight sits in one bin.
+ * under `formulas` (splitErrors, or nodeSplitErrors for rule `tree-node`), or null when
+ * all its weight sits in one bin.
  */
-export function scanHistogram(h: Float64Array, slot: number, feature: number, formulas: BoosterFormulas): SplitCandidate | null {
+export function scanHistogram(h: Float64Array, slot: number, feature: number, formulas: BoosterFormulas, rule: SplitRule = 'stump'): SplitCandidate | null {
   // Module bindings copied to locals: read inside the loops they cost about 10 % of a
   // whole search (V8 reloads a module binding on every use).
   const negativeSlot = slot + HISTOGRAM_NEGATIVES;
@@ -110,7 +118,8 @@ export function scanHistogram(h: Float64Array, slot: number, feature: number, fo
     count++;
   }
   if (count === 0) return null;
-  formulas.splitErrors(edgePositiveBelow, edgeNegativeBelow, count, positiveTotal, negativeTotal, edgeErrors);
+  if (rule === 'stump') formulas.splitErrors(edgePositiveBelow, edgeNegativeBelow, count, positiveTotal, negativeTotal, edgeErrors);
+  else formulas.nodeSplitErrors(edgePositiveBelow, edgeNegativeBelow, count, positiveTotal, negativeTotal, edgeErrors);
   let best = 0;
   for (let k = 1; k < count; k++) if (edgeErrors[k]! < edgeErrors[best]!) best = k;
   const belowPositive = edgePositiveBelow[best]!;

@@ -131,6 +131,24 @@ export interface BoosterFormulas {
   isNoBetterThanChance(split: SplitCandidate): boolean;
   /** The outputs of the weak classifier that makes this split, and its α. */
   sideOutputs(split: SplitCandidate): SideOutputs;
+
+  // --- Small trees (weak depth 2..3) -------------------------------------------------
+  /**
+   * The criterion that splits a node of a tree, with splitErrors' contract, over the
+   * node's class weights only (weights outside the node are zero).
+   */
+  nodeSplitErrors(
+    positiveBelow: Float64Array, negativeBelow: Float64Array, count: number,
+    positiveTotal: number, negativeTotal: number, errors: Float64Array,
+  ): void;
+  /** A leaf's output before scaling by the tree's α, from the class weights that reach it. */
+  leafOutput(positive: number, negative: number): number;
+  /** A leaf's share of the tree's error (the round's weighted error is their sum). */
+  leafError(positive: number, negative: number): number;
+  /** The factor every leaf output is multiplied by, from the tree's error (α; 1 for Gentle). */
+  treeScale(treeError: number): number;
+  /** True when a tree of this error beats no constant classifier on class weights P, N. */
+  isTreeNoBetterThanChance(treeError: number, positive: number, negative: number): boolean;
 }
 
 /**
@@ -166,6 +184,44 @@ class DiscreteAdaBoost implements BoosterFormulas {
     const alpha = discreteAlpha(split.error);
     const positivesAbove = split.belowPositive + split.aboveNegative <= split.belowNegative + split.abovePositive;
     return { belowOutput: positivesAbove ? -alpha : alpha, aboveOutput: positivesAbove ? alpha : -alpha, alpha };
+  }
+  /**
+   * The weighted Gini impurity of the two sides, Σ_side W_side · (1 − p² − n²) with p, n
+   * the side's class shares, which is Σ_side 2 P N / (P + N) (Breiman, Friedman, Olshen &
+   * Stone 1984, CART §4.3; scikit-learn's DecisionTreeClassifier default criterion). Why not
+   * the misclassification error that a stump minimizes: it is flat wherever both children
+   * keep the parent's majority, so a first split that makes the sides purer without flipping
+   * a vote gains nothing and the tree would stop after one level (Breiman et al. 1984 §4.1
+   * discuss this failure); Gini rewards purer sides, and the second level then turns that
+   * purity into fewer errors. The tree's ε, and so α, is still its weighted misclassification.
+   */
+  nodeSplitErrors(
+    positiveBelow: Float64Array, negativeBelow: Float64Array, count: number,
+    positiveTotal: number, negativeTotal: number, errors: Float64Array,
+  ): void {
+    for (let k = 0; k < count; k++) {
+      const positiveAbove = positiveTotal - positiveBelow[k]!;
+      const negativeAbove = negativeTotal - negativeBelow[k]!;
+      const below = positiveBelow[k]! + negativeBelow[k]!;
+      const above = positiveAbove + negativeAbove;
+      errors[k] = (below > 0 ? (2 * positiveBelow[k]! * negativeBelow[k]!) / below : 0)
+        + (above > 0 ? (2 * positiveAbove * negativeAbove) / above : 0);
+    }
+  }
+  /** The leaf votes for its heavier class (+1 on a tie, as a stump's polarity ties to positives). */
+  leafOutput(positive: number, negative: number): number {
+    return positive >= negative ? 1 : -1;
+  }
+  /** The weight the leaf's vote gets wrong: min(P, N). */
+  leafError(positive: number, negative: number): number {
+    return positive >= negative ? negative : positive;
+  }
+  /** α = ½ ln((1 − ε)/ε) of the whole tree's weighted misclassification ε (Freund & Schapire 1997 §4). */
+  treeScale(treeError: number): number {
+    return discreteAlpha(treeError);
+  }
+  isTreeNoBetterThanChance(treeError: number): boolean {
+    return treeError >= 0.5 - CHANCE_MARGIN;
   }
 }
 
@@ -214,6 +270,37 @@ class GentleAdaBoost implements BoosterFormulas {
       aboveOutput: above > 0 ? (split.abovePositive - split.aboveNegative) / above : 0,
       alpha: 1,
     };
+  }
+  /**
+   * The same squared error as splitErrors, over the node: the weighted least-squares
+   * regression tree on ±1 targets grows each node by the stump rule (Friedman et al. 2000
+   * §4 fit f_m by weighted least squares; with trees the fit is a CART regression tree,
+   * Breiman et al. 1984 §8.3).
+   */
+  nodeSplitErrors(
+    positiveBelow: Float64Array, negativeBelow: Float64Array, count: number,
+    positiveTotal: number, negativeTotal: number, errors: Float64Array,
+  ): void {
+    this.splitErrors(positiveBelow, negativeBelow, count, positiveTotal, negativeTotal, errors);
+  }
+  /** The leaf's weighted label mean (P − N)/(P + N); 0 for a leaf no weight reaches. */
+  leafOutput(positive: number, negative: number): number {
+    const total = positive + negative;
+    return total > 0 ? (positive - negative) / total : 0;
+  }
+  /** The leaf's weighted squared error (P + N) − (P − N)²/(P + N); 0 when empty. */
+  leafError(positive: number, negative: number): number {
+    const total = positive + negative;
+    return total > 0 ? total - ((positive - negative) * (positive - negative)) / total : 0;
+  }
+  /** Leaf means are added unscaled (Algorithm 4, step 2(b)). */
+  treeScale(): number {
+    return 1;
+  }
+  /** As for a stump: the tree must beat the best constant fit, W − (P − N)²/W. */
+  isTreeNoBetterThanChance(treeError: number, positive: number, negative: number): boolean {
+    const constantError = positive + negative - ((positive - negative) * (positive - negative)) / (positive + negative);
+    return treeError >= constantError - CHANCE_MARGIN;
   }
 }
 

@@ -1,5 +1,5 @@
 import type { BoosterKind } from './booster.js';
-import type { SplitCandidate } from './best-split.js';
+import type { SplitCandidate, SplitRule } from './best-split.js';
 
 // What training asks of a worker pool, stated here in the boosting core so that the core
 // depends on no folder above it; src/parallel/boosting-pool.ts implements it with worker threads.
@@ -31,6 +31,8 @@ export interface SplitSearchJob {
   readonly positiveCount: number;
   readonly weights: Float64Array;
   readonly booster: BoosterKind;
+  /** The criterion (searchBestSplit); `stump` when absent. */
+  readonly rule?: SplitRule;
 }
 
 

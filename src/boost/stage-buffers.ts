@@ -34,7 +34,7 @@ export interface StageBufferLimits {
  * whatever the number of stages.
  *
  * Memory: min(memoryBytes, featureCount · sampleCount) bytes for the table, plus
- * 16 · featureCount + 12 · cornerCount + 4 · (featureCount + 1) + (4 · tableSize + 16) · sampleCount.
+ * 16 · featureCount + 12 · cornerCount + 4 · (featureCount + 1) + (4 · tableSize + 24) · sampleCount.
  */
 export interface StageBuffers {
   readonly limits: StageBufferLimits;
@@ -46,6 +46,8 @@ export interface StageBuffers {
   readonly columns: Float32Array;
   readonly inverseStandardDeviations: Float64Array;
   readonly weights: Float64Array;
+  /** A tree node's weights (the round's weights, zero outside the node; see growTree). */
+  readonly nodeWeights: Float64Array;
   readonly starts: Int32Array;
   readonly offsets: Int32Array;
   readonly coefficients: Float64Array;
@@ -72,6 +74,7 @@ export function createStageBuffers(limits: StageBufferLimits): StageBuffers {
     columns: new Float32Array(allocate(4 * tableSize * sampleCount)),
     inverseStandardDeviations: new Float64Array(allocate(8 * sampleCount)),
     weights: new Float64Array(allocate(8 * sampleCount)),
+    nodeWeights: new Float64Array(allocate(8 * sampleCount)),
     starts: new Int32Array(allocate(4 * (featureCount + 1))),
     offsets: new Int32Array(allocate(4 * cornerCount)),
     coefficients: new Float64Array(allocate(8 * cornerCount)),

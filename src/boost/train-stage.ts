@@ -1,5 +1,5 @@
 import { checkInteger, checkNumber, checkOneOf, checkOpenInterval, checkThat } from '../check.js';
-import type { Stage, StageTrainingRecord, WeakClassifier } from '../model/cascade-model.js';
+import { MAX_TREE_DEPTH, weakClassifierFromTree, type Stage, type StageTrainingRecord, type TreeLeaf, type TreeSplit, type WeakClassifier } from '../model/cascade-model.js';
 import { detectorWeakClassifier } from '../detect/detector-cascade.js';
 import { stageSampleScores } from '../detect/window-list.js';
 import { compileFeatures } from '../features/compiled-features.js';
@@ -8,11 +8,12 @@ import type { WindowSamples } from '../features/window-samples.js';
 import type { BoostingPool } from './boosting-pool-contract.js';
 import { decideRound, stumpOutputs } from './adaboost.js';
 import { BOOSTER_KINDS, initialWeights, updateWeights, type BoosterKind } from './booster.js';
-import { createSplitScratch, searchBestSplit, type SplitCandidate } from './best-split.js';
+import { createSplitScratch, searchBestSplit, type SplitCandidate, type SplitRule } from './best-split.js';
 import { fillResponseRows, splitValueOf, type ResponseMatrix } from './response-matrix.js';
 import { packSampleColumns } from './sample-columns.js';
 import { createStageBuffers, DEFAULT_MATRIX_MEMORY_BYTES, placeCompiledFeatures, type StageBuffers } from './stage-buffers.js';
 import { passRate, thresholdForDetectionRate } from './stage-threshold.js';
+import { decideTreeRound, growTree, mapMatrixTree, treeOutputs } from './tree-round.js';
 
 export { DEFAULT_MATRIX_MEMORY_BYTES };
 
@@ -65,6 +66,14 @@ export interface StageTrainingOptions {
   readonly leadingNegatives?: number;
   /** Initial weights: `balanced` (default, Viola & Jones 2001 Table 1) or `uniform`. */
   readonly initialWeights?: 'balanced' | 'uniform';
+  /**
+   * Depth of each weak classifier, 1..MAX_TREE_DEPTH: 1 (default) boosts decision stumps,
+   * 2 and 3 small decision trees (growTree; Lienhart, Kuranov & Pisarevsky 2003 found
+   * small CART trees better than stumps for Haar-like cascades). Gentle AdaBoost grows
+   * the weighted least-squares regression tree, Discrete AdaBoost the weighted Gini
+   * classification tree whose leaves vote ±α (booster.ts).
+   */
+  readonly weakDepth?: number;
   /**
    * Memory to work in, shared by every stage of a run (see StageBuffers); shared
    * buffers when a pool is given. When absent, the stage allocates its own.
@@ -119,6 +128,7 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
   const minDetectionRate = checkNumber('minimum stage detection rate', options.minDetectionRate, Number.MIN_VALUE, 1);
   const maxFalsePositiveRate = checkOpenInterval('maximum stage false-positive rate', options.maxFalsePositiveRate, 0, 1);
   const maxWeakClassifiers = checkInteger('maximum weak classifiers per stage', options.maxWeakClassifiers, 1, 10_000);
+  const weakDepth = checkInteger('weak classifier depth', options.weakDepth ?? 1, 1, MAX_TREE_DEPTH);
   const memoryBytes = Math.min(
     checkNumber('response matrix memory cap (bytes)', options.memoryBytes ?? DEFAULT_MATRIX_MEMORY_BYTES, 1, Number.MAX_SAFE_INTEGER),
     DEFAULT_MATRIX_MEMORY_BYTES,
@@ -175,10 +185,38 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
   const weights = buffers.weights.subarray(0, sampleCount);
   weights.set(initialWeights(positiveCount, negatives.count, options.initialWeights ?? 'balanced'));
   const scratch = createSplitScratch();
-  const search = async (): Promise<SplitCandidate | null> =>
+  const search = async (searchWeights: Float64Array, rule: SplitRule): Promise<SplitCandidate | null> =>
     pool === undefined
-      ? searchBestSplit(matrix.bins, sampleCount, positiveCount, weights, booster, 0, featureCount, scratch)
-      : pool.searchSplit({ bins: matrix.bins, featureCount, sampleCount, positiveCount, weights, booster });
+      ? searchBestSplit(matrix.bins, sampleCount, positiveCount, searchWeights, booster, 0, featureCount, scratch, rule)
+      : pool.searchSplit({ bins: matrix.bins, featureCount, sampleCount, positiveCount, weights: searchWeights, booster, rule });
+  const nodeWeights = buffers.nodeWeights.subarray(0, sampleCount);
+  // One round: the weak classifier in model terms and its outputs on the training samples.
+  const chooseWeak = async (): Promise<
+    | { readonly kind: 'stop'; readonly reason: 'no-better-than-chance' }
+    | { readonly kind: 'round' | 'last'; readonly weak: WeakClassifier; readonly outputs: Float64Array }
+  > => {
+    if (weakDepth === 1) {
+      const outcome = decideRound(await search(weights, 'stump'), booster);
+      if (outcome.kind === 'stop' && outcome.reason === 'no-better-than-chance') return outcome;
+      const { stump } = outcome;
+      const weak: WeakClassifier = {
+        feature: stageFeatures[stump.feature]!,
+        splitValue: splitValueOf(matrix, stump.feature, stump.bin),
+        belowOutput: stump.belowOutput,
+        aboveOutput: stump.aboveOutput,
+      };
+      return { kind: outcome.kind === 'stop' ? 'last' : 'round', weak, outputs: stumpOutputs(matrix, stump) };
+    }
+    const grown = await growTree(matrix, weights, nodeWeights, weakDepth, (searchWeights) => search(searchWeights, 'tree-node'));
+    const outcome = decideTreeRound(grown, booster);
+    if (outcome.kind === 'stop' && outcome.reason === 'no-better-than-chance') return outcome;
+    const root = mapMatrixTree<TreeSplit, TreeLeaf>(
+      outcome.tree.root,
+      (feature, bin, below, above) => ({ feature: stageFeatures[feature]!, splitValue: splitValueOf(matrix, feature, bin), below, above }),
+      (output) => ({ output }),
+    ) as TreeSplit;
+    return { kind: outcome.kind === 'stop' ? 'last' : 'round', weak: weakClassifierFromTree(root), outputs: treeOutputs(matrix, outcome.tree.root) };
+  };
 
   const weakClassifiers: WeakClassifier[] = [];
   const negativeScores = new Float64Array(negatives.count);
@@ -190,18 +228,12 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
 
   while (weakClassifiers.length < maxWeakClassifiers) {
     const roundStart = performance.now();
-    const outcome = decideRound(await search(), booster);
-    if (outcome.kind === 'stop' && outcome.reason === 'no-better-than-chance') {
+    const outcome = await chooseWeak();
+    if (outcome.kind === 'stop') {
       stoppedBecause = outcome.reason;
       break;
     }
-    const { stump } = outcome;
-    const weak: WeakClassifier = {
-      feature: stageFeatures[stump.feature]!,
-      splitValue: splitValueOf(matrix, stump.feature, stump.bin),
-      belowOutput: stump.belowOutput,
-      aboveOutput: stump.aboveOutput,
-    };
+    const { weak, outputs } = outcome;
     weakClassifiers.push(weak);
 
     // Running stage scores: the matrix bins decide "below" exactly as value < splitValue
@@ -209,7 +241,6 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
     // the scan kernel, one classifier at a time; adding each output to a running sum from 0
     // is the kernel's own order, so these are the scores detection gives the same windows.
     // Flat validation windows score −∞: no cascade passes them.
-    const outputs = stumpOutputs(matrix, stump);
     for (let i = 0; i < negatives.count; i++) negativeScores[i]! += outputs[positiveCount + i]!;
     const validationOutputs = stageSampleScores({ weakClassifiers: [detectorWeakClassifier(weak)] }, positives.windowWidth, positives.windowHeight, validationPositives);
     for (let i = 0; i < validationPositives.count; i++) validationScores[i]! += validationOutputs[i]!;
@@ -225,8 +256,8 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
       stoppedBecause = 'targets-met';
       break;
     }
-    if (outcome.kind === 'stop') {
-      stoppedBecause = outcome.reason;
+    if (outcome.kind === 'last') {
+      stoppedBecause = 'perfect-separation';
       break;
     }
     weights.set(updateWeights(weights, outputs, positiveCount));

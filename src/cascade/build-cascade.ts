@@ -59,6 +59,11 @@ export interface CascadeTrainingOptions {
    * on real positives; copies of a training positive never reach validation.
    */
   readonly augmentCopies?: number;
+  /**
+   * Depth of every weak classifier, 1..3 (default 1: decision stumps); 2 and 3 boost small
+   * decision trees (trainStage's weakDepth).
+   */
+  readonly weakDepth?: number;
   readonly pool?: BoostingPool;
   /** Stages finished by an earlier run (resume); training continues after them. */
   readonly completedStages?: readonly Stage[];
@@ -278,6 +283,7 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
         leadingNegatives: fromPatches.length,
         validationPositives: packWindowSamples(validationKept, windowWidth, windowHeight),
         booster: options.booster,
+        ...(options.weakDepth === undefined ? {} : { weakDepth: options.weakDepth }),
         minDetectionRate: options.stageDetectionRate,
         maxFalsePositiveRate: options.stageFalsePositiveRate,
         maxWeakClassifiers: options.maxWeakClassifiers,

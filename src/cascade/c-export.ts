@@ -1,5 +1,6 @@
 import { RectboostError } from '../errors.js';
-import type { DetectorCascade } from '../detect/detector-cascade.js';
+import { nodePlace } from '../detect/compiled-cascade.js';
+import { isDetectorTree, type DetectorCascade, type DetectorStump, type DetectorWeakClassifier } from '../detect/detector-cascade.js';
 
 /** The texts of runtime-c/ that every export shares: the header with @NAME@ placeholders and the detector code. */
 export interface CDetectorTemplates {
@@ -38,10 +39,14 @@ export const C_INTEGER_MAX_WINDOW_PIXELS = 66051;
  * of the integer build can overflow: with B the largest Σ |weight| · area of a
  * classifier, a feature value is at most 255 · B · 2^Q and is multiplied by
  * n · 2^7 ≤ 66,051 · 128; a split value times 2^7 · n · σ ≤ 2^7 · 66,051 · 127.5.
+ * Decision trees are written as their heap-order split records (rbd_node_place says where
+ * each sits in its tree, as compileCascadeAtScale's nodePlace), and the detector follows a
+ * window's path through them.
  * @throws RectboostError `bad-model` when no Q ≥ 4 fits (then the integer build would be too coarse).
  */
 export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTemplates, label: string): CDetectorExport {
-  const stages = cascade.stages;
+  // A stump is one record; a tree its heap-order splits, as compileCascadeAtScale lays them out.
+  const stages = cascade.stages.map((stage) => ({ threshold: stage.threshold, votes: stage.weakClassifiers.length, weakClassifiers: nodeRecords(stage.weakClassifiers) }));
   const classifiers = stages.flatMap((stage) => stage.weakClassifiers);
   const rectangles = classifiers.flatMap((weak) => weak.rectangles);
   const stageEnds: number[] = [];
@@ -56,7 +61,7 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
     classifierCount += stage.weakClassifiers.length;
     stageEnds.push(classifierCount);
   }
-  const valueBits = integerValueBits(cascade, label);
+  const valueBits = integerValueBits(stages, label);
   const scaleValue = 2 ** valueBits;
   const scaleVote = 2 ** C_VOTE_BITS;
   const lines: string[] = [];
@@ -71,20 +76,21 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
   lines.push('#include "rectboost_detector.h"', '');
   table('uint32_t', 'rbd_stage_end', stageEnds.map(String), 12);
   table('uint32_t', 'rbd_classifier_end', classifierEnds.map(String), 12);
+  table('uint32_t', 'rbd_node_place', classifiers.map((w) => String(w.place)), 12);
   table('uint16_t', 'rbd_rectangle', rectangles.map((r) => `{${r.x}, ${r.y}, ${r.width}, ${r.height}}`), 4, '[4]');
   lines.push('#ifdef RBD_INTEGER', `#define RBD_VALUE_BITS ${valueBits}`);
   table('int64_t', 'rbd_rectangle_weight_area', rectangles.map((r) => cInteger(r.weight * r.width * r.height * scaleValue)));
   // Each vote is rounded by at most half a unit, so a stage of m votes sums to within m/2 units of
   // the exact sum: lowering the threshold by m/2 units keeps every window whose exact sum reaches
   // it, including the many exact ties (training sets thresholds at a positive's own sum of votes).
-  table('int64_t', 'rbd_threshold', stages.map((s) => `${Math.floor(s.threshold * scaleVote - s.weakClassifiers.length / 2)}LL`));
+  table('int64_t', 'rbd_threshold', stages.map((s) => `${Math.floor(s.threshold * scaleVote - s.votes / 2)}LL`));
   // The score counts each margin from the threshold itself (rounded), not from the lowered one, so
   // the integer build's scores stay within the votes' rounding of the float build's.
   table('int64_t', 'rbd_score_threshold', stages.map((s) => cInteger(s.threshold * scaleVote)));
   table('int64_t', 'rbd_split', classifiers.map((w) => cInteger(w.splitValue * scaleValue)));
   table('int64_t', 'rbd_below', classifiers.map((w) => cInteger(w.belowOutput * scaleVote)));
   table('int64_t', 'rbd_above', classifiers.map((w) => cInteger(w.aboveOutput * scaleVote)));
-  lines.push('#define RBD_TABLE_BYTES (sizeof rbd_stage_end + sizeof rbd_classifier_end + sizeof rbd_rectangle + sizeof rbd_rectangle_weight_area \\');
+  lines.push('#define RBD_TABLE_BYTES (sizeof rbd_stage_end + sizeof rbd_classifier_end + sizeof rbd_node_place + sizeof rbd_rectangle + sizeof rbd_rectangle_weight_area \\');
   lines.push('  + sizeof rbd_threshold + sizeof rbd_score_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above)');
   lines.push('#else');
   table('double', 'rbd_rectangle_weight', rectangles.map((r) => cDouble(r.weight)));
@@ -92,7 +98,7 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
   table('double', 'rbd_split', classifiers.map((w) => cDouble(w.splitValue)));
   table('double', 'rbd_below', classifiers.map((w) => cDouble(w.belowOutput)));
   table('double', 'rbd_above', classifiers.map((w) => cDouble(w.aboveOutput)));
-  lines.push('#define RBD_TABLE_BYTES (sizeof rbd_stage_end + sizeof rbd_classifier_end + sizeof rbd_rectangle + sizeof rbd_rectangle_weight \\');
+  lines.push('#define RBD_TABLE_BYTES (sizeof rbd_stage_end + sizeof rbd_classifier_end + sizeof rbd_node_place + sizeof rbd_rectangle + sizeof rbd_rectangle_weight \\');
   lines.push('  + sizeof rbd_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above)');
   lines.push('#endif', '');
   const header = templates.header
@@ -103,7 +109,7 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
     .replaceAll('@CLASSIFIER_COUNT@', String(classifiers.length))
     .replaceAll('@RECTANGLE_COUNT@', String(rectangles.length));
   const counts = { stages: Math.max(1, stages.length), classifiers: Math.max(1, classifiers.length), rectangles: Math.max(1, rectangles.length) };
-  const numbers = 4 * counts.stages + 4 * counts.classifiers + 8 * counts.rectangles + 8 * counts.rectangles + 8 * counts.stages + 3 * 8 * counts.classifiers;
+  const numbers = 4 * counts.stages + 4 * counts.classifiers + 4 * counts.classifiers + 8 * counts.rectangles + 8 * counts.rectangles + 8 * counts.stages + 3 * 8 * counts.classifiers;
   return {
     header,
     source: `${lines.join('\n')}\n${templates.core}`,
@@ -123,8 +129,9 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
  */
 export function cWorkBytes(cascade: DetectorCascade, build: 'float' | 'integer', width: number, height: number, hitCapacity: number): number {
   const align = (bytes: number): number => Math.ceil(bytes / 8) * 8;
-  const rectangles = Math.max(1, cascade.stages.reduce((n, stage) => n + stage.weakClassifiers.reduce((m, weak) => m + weak.rectangles.length, 0), 0));
-  const classifiers = Math.max(1, cascade.stages.reduce((n, stage) => n + stage.weakClassifiers.length, 0));
+  const records = cascade.stages.flatMap((stage) => nodeRecords(stage.weakClassifiers));
+  const rectangles = Math.max(1, records.reduce((n, record) => n + record.rectangles.length, 0));
+  const classifiers = Math.max(1, records.length);
   const entry = build === 'float' ? 8 : 4;
   const entries = (width + 1) * (height + 1);
   // rbd_hit: four int32 and an 8-byte score; rbd_detection: four 8-byte box values, an 8-byte score, int32 support (padded to 48).
@@ -132,10 +139,35 @@ export function cWorkBytes(cascade: DetectorCascade, build: 'float' | 'integer',
   return 2 * align(entries * entry) + align(4 * 4 * rectangles) + align(8 * 4 * rectangles) + align(4 * classifiers) + hitCapacity * perHit + 64;
 }
 
-function integerValueBits(cascade: DetectorCascade, label: string): number {
+/** One record of the C tables: a stump, or one split of a tree (its place as nodePlace gives it). */
+interface CNodeRecord {
+  readonly rectangles: DetectorStump['rectangles'];
+  readonly splitValue: number;
+  readonly belowOutput: number;
+  readonly aboveOutput: number;
+  readonly place: number;
+}
+
+/** The records of one stage: one per stump, 2^d − 1 per tree of depth d (bottom splits carry the leaves). */
+function nodeRecords(weakClassifiers: readonly DetectorWeakClassifier[]): CNodeRecord[] {
+  return weakClassifiers.flatMap((weak): CNodeRecord[] => {
+    if (!isDetectorTree(weak)) return [{ ...weak, place: nodePlace(0, 1) }];
+    const count = weak.splits.length;
+    const bottom = count >>> 1;
+    return weak.splits.map((split, k) => ({
+      rectangles: split.rectangles,
+      splitValue: split.splitValue,
+      belowOutput: k >= bottom ? weak.leaves[2 * (k - bottom)]! : 0,
+      aboveOutput: k >= bottom ? weak.leaves[2 * (k - bottom) + 1]! : 0,
+      place: nodePlace(k, count),
+    }));
+  });
+}
+
+function integerValueBits(stages: ReadonlyArray<{ readonly weakClassifiers: readonly CNodeRecord[] }>, label: string): number {
   let largestSum = 1;
   let largestSplit = 1;
-  for (const stage of cascade.stages) {
+  for (const stage of stages) {
     for (const weak of stage.weakClassifiers) {
       largestSum = Math.max(largestSum, weak.rectangles.reduce((n, r) => n + Math.abs(r.weight) * r.width * r.height, 0) + weak.rectangles.length);
       largestSplit = Math.max(largestSplit, Math.abs(weak.splitValue));

@@ -4,9 +4,14 @@ import { MAX_WINDOW_SIDE } from '../features/enumerate-features.js';
 import { BASIC_FEATURE_KINDS } from '../features/feature-kind.js';
 import { featureFitsWindow, type HaarFeature } from '../features/haar-feature.js';
 import {
+  branchDepth,
   CASCADE_FORMAT,
   CASCADE_VERSION,
+  isDecisionTree,
+  isTreeLeaf,
+  MAX_TREE_DEPTH,
   type CascadeModel,
+  type TreeBranch,
   type Stage,
   type StageTrainingRecord,
   type TrainingProvenance,
@@ -76,13 +81,22 @@ function indentJson(value: unknown, indent: string): string {
 }
 
 function orderedWeak(weak: WeakClassifier): object {
-  const f = weak.feature;
+  if (isDecisionTree(weak)) return { tree: orderedBranch(weak.tree) };
   return {
-    feature: { kind: f.kind, x: f.x, y: f.y, cellWidth: f.cellWidth, cellHeight: f.cellHeight },
+    feature: orderedFeature(weak.feature),
     splitValue: weak.splitValue,
     belowOutput: weak.belowOutput,
     aboveOutput: weak.aboveOutput,
   };
+}
+
+function orderedFeature(f: HaarFeature): object {
+  return { kind: f.kind, x: f.x, y: f.y, cellWidth: f.cellWidth, cellHeight: f.cellHeight };
+}
+
+function orderedBranch(branch: TreeBranch): object {
+  if (isTreeLeaf(branch)) return { output: branch.output };
+  return { feature: orderedFeature(branch.feature), splitValue: branch.splitValue, below: orderedBranch(branch.below), above: orderedBranch(branch.above) };
 }
 
 function orderedStageRecord(record: StageTrainingRecord): object {
@@ -214,24 +228,53 @@ export function validateCascadeModel(raw: unknown, label: string): CascadeModel 
 }
 
 function parseWeak(v: FieldChecks, raw: unknown, path: string, width: number, height: number): WeakClassifier {
-  const weak = v.object(raw, path, ['feature', 'splitValue', 'belowOutput', 'aboveOutput'], []);
-  const featureObject = v.object(weak.feature, `${path}.feature`, ['kind', 'x', 'y', 'cellWidth', 'cellHeight'], []);
-  const feature: HaarFeature = {
-    kind: v.oneOf(featureObject.kind, `${path}.feature.kind`, BASIC_FEATURE_KINDS),
-    x: v.integer(featureObject.x, `${path}.feature.x`, 0, MAX_WINDOW_SIDE),
-    y: v.integer(featureObject.y, `${path}.feature.y`, 0, MAX_WINDOW_SIDE),
-    cellWidth: v.integer(featureObject.cellWidth, `${path}.feature.cellWidth`, 1, MAX_WINDOW_SIDE),
-    cellHeight: v.integer(featureObject.cellHeight, `${path}.feature.cellHeight`, 1, MAX_WINDOW_SIDE),
-  };
-  if (!featureFitsWindow(feature, width, height)) {
-    v.fail(`${path}.feature`, `lies outside the ${width}×${height} window`);
+  if (typeof raw === 'object' && raw !== null && !Array.isArray(raw) && 'tree' in raw) {
+    const tree = v.object(raw, path, ['tree'], []);
+    const root = parseBranch(v, tree.tree, `${path}.tree`, 1, width, height);
+    if (isTreeLeaf(root)) return v.fail(`${path}.tree`, 'must be a split (feature, splitValue, below, above), not a leaf');
+    if (branchDepth(root) === 1) {
+      return v.fail(`${path}.tree`, 'is a tree of depth 1; write it as a stump (feature, splitValue, belowOutput, aboveOutput)');
+    }
+    return { tree: root };
   }
+  const weak = v.object(raw, path, ['feature', 'splitValue', 'belowOutput', 'aboveOutput'], []);
   return {
-    feature,
+    feature: parseFeature(v, weak.feature, `${path}.feature`, width, height),
     splitValue: modelNumber(v, weak.splitValue, `${path}.splitValue`),
     belowOutput: modelNumber(v, weak.belowOutput, `${path}.belowOutput`),
     aboveOutput: modelNumber(v, weak.aboveOutput, `${path}.aboveOutput`),
   };
+}
+
+/** A tree branch at `level` (the root split is level 1): a leaf `{output}` or a split at most MAX_TREE_DEPTH levels deep. */
+function parseBranch(v: FieldChecks, raw: unknown, path: string, level: number, width: number, height: number): TreeBranch {
+  if (typeof raw === 'object' && raw !== null && !Array.isArray(raw) && 'output' in raw) {
+    const leaf = v.object(raw, path, ['output'], []);
+    return { output: modelNumber(v, leaf.output, `${path}.output`) };
+  }
+  if (level > MAX_TREE_DEPTH) return v.fail(path, `must be a leaf {output}: trees are at most ${MAX_TREE_DEPTH} splits deep`);
+  const split = v.object(raw, path, ['feature', 'splitValue', 'below', 'above'], []);
+  return {
+    feature: parseFeature(v, split.feature, `${path}.feature`, width, height),
+    splitValue: modelNumber(v, split.splitValue, `${path}.splitValue`),
+    below: parseBranch(v, split.below, `${path}.below`, level + 1, width, height),
+    above: parseBranch(v, split.above, `${path}.above`, level + 1, width, height),
+  };
+}
+
+function parseFeature(v: FieldChecks, raw: unknown, path: string, width: number, height: number): HaarFeature {
+  const featureObject = v.object(raw, path, ['kind', 'x', 'y', 'cellWidth', 'cellHeight'], []);
+  const feature: HaarFeature = {
+    kind: v.oneOf(featureObject.kind, `${path}.kind`, BASIC_FEATURE_KINDS),
+    x: v.integer(featureObject.x, `${path}.x`, 0, MAX_WINDOW_SIDE),
+    y: v.integer(featureObject.y, `${path}.y`, 0, MAX_WINDOW_SIDE),
+    cellWidth: v.integer(featureObject.cellWidth, `${path}.cellWidth`, 1, MAX_WINDOW_SIDE),
+    cellHeight: v.integer(featureObject.cellHeight, `${path}.cellHeight`, 1, MAX_WINDOW_SIDE),
+  };
+  if (!featureFitsWindow(feature, width, height)) {
+    v.fail(path, `lies outside the ${width}×${height} window`);
+  }
+  return feature;
 }
 
 function parseStageRecord(v: FieldChecks, raw: unknown, path: string): StageTrainingRecord {

@@ -1,6 +1,8 @@
 import { FieldChecks } from '../check.js';
 import type { DetectorCascade } from '../detect/detector-cascade.js';
-import { detectorCascadeFromModel } from '../detect/detector-cascade.js';
+import { detectorCascadeFromModel, isDetectorTree, type DetectorWeakClassifier } from '../detect/detector-cascade.js';
+import type { WeightedRectangle } from '../features/haar-feature.js';
+import { MAX_TREE_DEPTH } from '../model/cascade-model.js';
 import type { CascadeModel } from './cascade-model.js';
 import { parseModelText } from './model-json.js';
 
@@ -16,7 +18,8 @@ export const RUNTIME_CASCADE_VERSION = 1;
  * can evaluate it without knowing rectboost's feature kinds:
  *
  *   value = Σ weight · (pixel sum over the rectangle) / σ(window)
- *   vote  = value < split ? below : above
+ *   vote  = value < split ? below : above            (a stump)
+ *   vote  = the leaf reached by following the splits (a tree, see RuntimeTree)
  *   a window passes a stage when Σ votes ≥ threshold, and is detected when it passes all stages.
  *
  * σ is the population standard deviation of the window's pixels; windows with
@@ -30,13 +33,30 @@ export interface RuntimeCascadeFile {
   readonly normalization: 'window-standard-deviation';
   readonly stages: ReadonlyArray<{
     readonly threshold: number;
-    readonly classifiers: ReadonlyArray<{
-      readonly rectangles: ReadonlyArray<readonly [number, number, number, number, number]>;
-      readonly split: number;
-      readonly below: number;
-      readonly above: number;
-    }>;
+    readonly classifiers: ReadonlyArray<RuntimeStump | RuntimeTree>;
   }>;
+}
+
+/** One rectangle of a runtime file: `[x, y, width, height, weight]`. */
+export type RuntimeRectangle = readonly [number, number, number, number, number];
+
+/** A decision stump of a runtime file. */
+export interface RuntimeStump {
+  readonly rectangles: readonly RuntimeRectangle[];
+  readonly split: number;
+  readonly below: number;
+  readonly above: number;
+}
+
+/**
+ * A decision tree of a runtime file, as a full binary tree in heap order (DetectorTree):
+ * split k sends value < split to 2k + 1, the rest to 2k + 2; heap indices from
+ * splits.length on are the leaves, left to right. A split with no rectangles (value 0)
+ * stands where the tree stopped early; both its sides lead to equal leaves.
+ */
+export interface RuntimeTree {
+  readonly splits: ReadonlyArray<{ readonly rectangles: readonly RuntimeRectangle[]; readonly split: number }>;
+  readonly leaves: readonly number[];
 }
 
 /** Limits that keep an untrusted file from causing huge allocations (DESIGN §5). */
@@ -60,14 +80,18 @@ export function runtimeFileFromDetector(cascade: DetectorCascade): RuntimeCascad
     normalization: 'window-standard-deviation',
     stages: cascade.stages.map((stage) => ({
       threshold: stage.threshold,
-      classifiers: stage.weakClassifiers.map((weak) => ({
-        rectangles: weak.rectangles.map((r) => [r.x, r.y, r.width, r.height, r.weight] as const),
-        split: weak.splitValue,
-        below: weak.belowOutput,
-        above: weak.aboveOutput,
-      })),
+      classifiers: stage.weakClassifiers.map((weak): RuntimeStump | RuntimeTree => (isDetectorTree(weak)
+        ? {
+          splits: weak.splits.map((split) => ({ rectangles: split.rectangles.map(runtimeRectangle), split: split.splitValue })),
+          leaves: weak.leaves,
+        }
+        : { rectangles: weak.rectangles.map(runtimeRectangle), split: weak.splitValue, below: weak.belowOutput, above: weak.aboveOutput })),
     })),
   };
+}
+
+function runtimeRectangle(r: WeightedRectangle): RuntimeRectangle {
+  return [r.x, r.y, r.width, r.height, r.weight];
 }
 
 /**
@@ -95,23 +119,37 @@ export function runtimeCascadeFromValue(raw: unknown, label: string): DetectorCa
   const stages = v.array(file['stages'], 'stages', RUNTIME_LIMITS.stages).map((stageValue, s) => {
     const stage = v.object(stageValue, `stages[${s}]`, ['threshold', 'classifiers'], []);
     const threshold = v.finite(stage['threshold'], `stages[${s}].threshold`);
-    const weakClassifiers = v.array(stage['classifiers'], `stages[${s}].classifiers`, RUNTIME_LIMITS.classifiersPerStage).map((weakValue, w) => {
+    const weakClassifiers = v.array(stage['classifiers'], `stages[${s}].classifiers`, RUNTIME_LIMITS.classifiersPerStage).map((weakValue, w): DetectorWeakClassifier => {
       const where = `stages[${s}].classifiers[${w}]`;
+      const rectanglesAt = (value: unknown, field: string, allowEmpty: boolean): WeightedRectangle[] => {
+        const rectangleValues = v.array(value, field, RUNTIME_LIMITS.rectanglesPerClassifier);
+        if (rectangleValues.length === 0 && !allowEmpty) v.expected(field, 'a non-empty array', rectangleValues);
+        return rectangleValues.map((item, r) => {
+          const at = `${field}[${r}]`;
+          if (!Array.isArray(item) || item.length !== 5) return v.expected(at, '[x, y, width, height, weight]', item);
+          const x = v.integer(item[0], `${at}[0] (x)`, 0, windowWidth - 1);
+          const y = v.integer(item[1], `${at}[1] (y)`, 0, windowHeight - 1);
+          const width = v.integer(item[2], `${at}[2] (width, inside the window)`, 1, windowWidth - x);
+          const height = v.integer(item[3], `${at}[3] (height, inside the window)`, 1, windowHeight - y);
+          const weight = v.finite(item[4], `${at}[4] (weight)`);
+          return { x, y, width, height, weight };
+        });
+      };
+      if (typeof weakValue === 'object' && weakValue !== null && !Array.isArray(weakValue) && 'leaves' in weakValue) {
+        const tree = v.object(weakValue, where, ['splits', 'leaves'], []);
+        const splitValues = v.array(tree['splits'], `${where}.splits`, 2 ** MAX_TREE_DEPTH - 1);
+        if (splitValues.length !== 3 && splitValues.length !== 7) v.expected(`${where}.splits`, '3 or 7 splits (a full tree of depth 2 or 3)', splitValues);
+        const splits = splitValues.map((splitValue, k) => {
+          const split = v.object(splitValue, `${where}.splits[${k}]`, ['rectangles', 'split'], []);
+          return { rectangles: rectanglesAt(split['rectangles'], `${where}.splits[${k}].rectangles`, true), splitValue: v.finite(split['split'], `${where}.splits[${k}].split`) };
+        });
+        const leafValues = v.array(tree['leaves'], `${where}.leaves`, 2 ** MAX_TREE_DEPTH);
+        if (leafValues.length !== splits.length + 1) v.expected(`${where}.leaves`, `${splits.length + 1} leaf outputs (one more than the splits)`, leafValues);
+        return { splits, leaves: leafValues.map((leaf, j) => v.finite(leaf, `${where}.leaves[${j}]`)) };
+      }
       const weak = v.object(weakValue, where, ['rectangles', 'split', 'below', 'above'], []);
-      const rectangleValues = v.array(weak['rectangles'], `${where}.rectangles`, RUNTIME_LIMITS.rectanglesPerClassifier);
-      if (rectangleValues.length === 0) v.expected(`${where}.rectangles`, 'a non-empty array', rectangleValues);
-      const rectangles = rectangleValues.map((value, r) => {
-        const field = `${where}.rectangles[${r}]`;
-        if (!Array.isArray(value) || value.length !== 5) return v.expected(field, '[x, y, width, height, weight]', value);
-        const x = v.integer(value[0], `${field}[0] (x)`, 0, windowWidth - 1);
-        const y = v.integer(value[1], `${field}[1] (y)`, 0, windowHeight - 1);
-        const width = v.integer(value[2], `${field}[2] (width, inside the window)`, 1, windowWidth - x);
-        const height = v.integer(value[3], `${field}[3] (height, inside the window)`, 1, windowHeight - y);
-        const weight = v.finite(value[4], `${field}[4] (weight)`);
-        return { x, y, width, height, weight };
-      });
       return {
-        rectangles,
+        rectangles: rectanglesAt(weak['rectangles'], `${where}.rectangles`, false),
         splitValue: v.finite(weak['split'], `${where}.split`),
         belowOutput: v.finite(weak['below'], `${where}.below`),
         aboveOutput: v.finite(weak['above'], `${where}.above`),

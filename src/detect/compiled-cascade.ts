@@ -1,4 +1,4 @@
-import type { DetectorCascade } from './detector-cascade.js';
+import { isDetectorTree, type DetectorCascade, type DetectorStump } from './detector-cascade.js';
 import type { ScaledCascade } from './scan-kernel.js';
 
 /**
@@ -8,7 +8,9 @@ import type { ScaledCascade } from './scan-kernel.js';
  * zero-mean and in base units), and the four corners of every rectangle merged into
  * corner reads over an integral table of row stride `stride`, in ascending offset
  * order; `shift` (base pixels) gives the window step max(1, round(shift · scale)).
- * The result is the record layout the scan kernel reads (KernelImage.setScale).
+ * The result is the record layout the scan kernel reads (KernelImage.setScale): one node
+ * record per stump, and 2^d − 1 per tree of depth d (its DetectorTree splits in heap order;
+ * the bottom level's records carry the leaf outputs as their below/above outputs).
  *
  * Every evaluator uses it: detection per scale and image stride; training, mining,
  * retuning and patch evaluation at scale 1 over sample tables (stride window + 1) or
@@ -26,33 +28,50 @@ export function compileCascadeAtScale(cascade: DetectorCascade, scale: number, s
   const aboveOutputs: number[] = [];
   const offsets: number[] = [];
   const coefficients: number[] = [];
+  const nodePlaces: number[] = [];
+  // One node record: the split's corners, its split value, the outputs it adds (leaves at
+  // the bottom level, 0 above it) and its place in its tree.
+  const addRecord = (rectangles: DetectorStump['rectangles'], splitValue: number, below: number, above: number, place: number): void => {
+    // Merge the four corners of every rectangle: shared corners are read once.
+    const corners = new Map<number, number>();
+    for (const rectangle of rectangles) {
+      // Each edge is scaled and rounded once, as scaledFeatureCells does, so
+      // neighbouring cells stay contiguous; the weight is rebalanced by
+      // baseArea / scaledArea to keep the feature zero-mean and in base units.
+      const left = Math.round(rectangle.x * scale);
+      const top = Math.round(rectangle.y * scale);
+      const right = Math.round((rectangle.x + rectangle.width) * scale);
+      const bottom = Math.round((rectangle.y + rectangle.height) * scale);
+      const weight = (rectangle.weight * rectangle.width * rectangle.height) / ((right - left) * (bottom - top));
+      addCorner(corners, bottom * stride + right, weight);
+      addCorner(corners, bottom * stride + left, -weight);
+      addCorner(corners, top * stride + right, -weight);
+      addCorner(corners, top * stride + left, weight);
+    }
+    for (const [offset, coefficient] of [...corners.entries()].sort((a, b) => a[0] - b[0])) {
+      if (coefficient === 0) continue;
+      offsets.push(offset);
+      coefficients.push(coefficient);
+    }
+    weakEnds.push(offsets.length);
+    splitValues.push(splitValue);
+    belowOutputs.push(below);
+    aboveOutputs.push(above);
+    nodePlaces.push(place);
+  };
   cascade.stages.forEach((stage, stageIndex) => {
     for (const weak of stage.weakClassifiers) {
-      // Merge the four corners of every rectangle: shared corners are read once.
-      const corners = new Map<number, number>();
-      for (const rectangle of weak.rectangles) {
-        // Each edge is scaled and rounded once, as scaledFeatureCells does, so
-        // neighbouring cells stay contiguous; the weight is rebalanced by
-        // baseArea / scaledArea to keep the feature zero-mean and in base units.
-        const left = Math.round(rectangle.x * scale);
-        const top = Math.round(rectangle.y * scale);
-        const right = Math.round((rectangle.x + rectangle.width) * scale);
-        const bottom = Math.round((rectangle.y + rectangle.height) * scale);
-        const weight = (rectangle.weight * rectangle.width * rectangle.height) / ((right - left) * (bottom - top));
-        addCorner(corners, bottom * stride + right, weight);
-        addCorner(corners, bottom * stride + left, -weight);
-        addCorner(corners, top * stride + right, -weight);
-        addCorner(corners, top * stride + left, weight);
+      if (!isDetectorTree(weak)) {
+        addRecord(weak.rectangles, weak.splitValue, weak.belowOutput, weak.aboveOutput, nodePlace(0, 1));
+        continue;
       }
-      for (const [offset, coefficient] of [...corners.entries()].sort((a, b) => a[0] - b[0])) {
-        if (coefficient === 0) continue;
-        offsets.push(offset);
-        coefficients.push(coefficient);
-      }
-      weakEnds.push(offsets.length);
-      splitValues.push(weak.splitValue);
-      belowOutputs.push(weak.belowOutput);
-      aboveOutputs.push(weak.aboveOutput);
+      const splitCount = weak.splits.length;
+      const bottom = splitCount >>> 1;
+      weak.splits.forEach((split, k) => {
+        const below = k >= bottom ? weak.leaves[2 * (k - bottom)]! : 0;
+        const above = k >= bottom ? weak.leaves[2 * (k - bottom) + 1]! : 0;
+        addRecord(split.rectangles, split.splitValue, below, above, nodePlace(k, splitCount));
+      });
     }
     stageEnds[stageIndex] = weakEnds.length;
     thresholds[stageIndex] = stage.threshold;
@@ -69,9 +88,18 @@ export function compileCascadeAtScale(cascade: DetectorCascade, scale: number, s
     aboveOutputs: Float64Array.from(aboveOutputs),
     offsets: Int32Array.from(offsets),
     coefficients: Float64Array.from(coefficients),
+    nodePlaces: Int32Array.from(nodePlaces),
   };
 }
 
 function addCorner(corners: Map<number, number>, offset: number, weight: number): void {
   corners.set(offset, (corners.get(offset) ?? 0) + weight);
+}
+
+/**
+ * A node record's place in its tree, as the kernel reads it: heap index `node` in the low
+ * 16 bits and the tree's split count (1 for a stump, 3 or 7) in the high 16 bits.
+ */
+export function nodePlace(node: number, splitCount: number): number {
+  return (splitCount << 16) | node;
 }

@@ -154,7 +154,8 @@ class HitCollector {
  *   total = S[br] − S[bl] − S[tr] + S[tl] (and likewise from the squared table);
  *   mean = total · (1/n); variance = squaredTotal · (1/n) − mean · mean;
  *   value = ((0 + c₀·S[o₀]) + c₁·S[o₁]) + … over a classifier's merged corners;
- *   output = value · (1/σ) < splitValue ? belowOutput : aboveOutput;
+ *   output = value · (1/σ) < splitValue ? belowOutput : aboveOutput (a stump; a tree's
+ *     output is the leaf its splits lead to, each split tested the same way, added once);
  *   margin = ((0 + output₀) + output₁ + …) − threshold, passing when ≥ 0;
  *   score = ((margin₀ + margin₁) + margin₂) + … over the stages (margin₀ alone for one).
  *

@@ -1,11 +1,14 @@
 import { RectboostError } from '../errors.js';
 import type { IntegralImage } from '../image/integral-image.js';
+import { MAX_TREE_DEPTH } from '../model/cascade-model.js';
 import { SCAN_KERNEL_BASE64 } from './scan-kernel-binary.js';
 
 /**
- * One scale of a cascade compiled to flat typed arrays: every weak classifier's
- * rescaled rectangles merged into corner reads over the image's integral table
- * (offsets in table entries, relative to the window's top-left entry).
+ * One scale of a cascade compiled to flat typed arrays: every split's rescaled
+ * rectangles merged into corner reads over the image's integral table (offsets in
+ * table entries, relative to the window's top-left entry). The per-record arrays
+ * (weakEnds … nodePlaces) have one entry per node record: one for a stump, 2^d − 1
+ * for a tree of depth d (compileCascadeAtScale); stageEnds counts node records.
  */
 export interface ScaledCascade {
   readonly windowWidth: number;
@@ -20,6 +23,8 @@ export interface ScaledCascade {
   readonly aboveOutputs: Float64Array;
   readonly offsets: Int32Array;
   readonly coefficients: Float64Array;
+  /** Each record's place in its tree: (split count << 16) | heap index (nodePlace). */
+  readonly nodePlaces: Int32Array;
 }
 
 // The parts of WebAssembly.Memory and WebAssembly.Global used here, named
@@ -45,6 +50,7 @@ interface KernelExports {
   readonly stagesAt: KernelGlobal;
   readonly weaksAt: KernelGlobal;
   readonly cornersAt: KernelGlobal;
+  readonly treeScratchAt: KernelGlobal;
   readonly bottomRight: KernelGlobal;
   readonly bottomLeft: KernelGlobal;
   readonly topRight: KernelGlobal;
@@ -58,6 +64,8 @@ interface KernelExports {
 const STAGE_RECORD = 16;
 const WEAK_RECORD = 32;
 const CORNER_RECORD = 16;
+// The tree scratch: per heap index of a tree's splits, the path masks of four windows (32 bytes).
+const TREE_SCRATCH = 32 * 2 ** MAX_TREE_DEPTH;
 
 // Tally slots (f64) that scanRow adds to; rejections by stage k go to TALLY_REJECTED + k.
 export const TALLY_WINDOWS = 0;
@@ -129,6 +137,7 @@ export class KernelImage {
     this.stagesAt = take(STAGE_RECORD * capacity.stages);
     this.weaksAt = take(WEAK_RECORD * capacity.weakClassifiers);
     this.cornersAt = take(CORNER_RECORD * capacity.corners);
+    const treeScratchAt = take(TREE_SCRATCH);
     // Past the widest row, the kernel needs three spare slots (it reads windows four at a time).
     const listSlots = columns + 4;
     this.listSlots = listSlots;
@@ -167,6 +176,7 @@ export class KernelImage {
     exports.stagesAt.value = this.stagesAt;
     exports.weaksAt.value = this.weaksAt;
     exports.cornersAt.value = this.cornersAt;
+    exports.treeScratchAt.value = treeScratchAt;
     exports.presetCount.value = -1;
     exports.keepAll.value = 0;
   }
@@ -191,6 +201,7 @@ export class KernelImage {
       weakFloats[4 * w + 1] = c.belowOutputs[w]!;
       weakFloats[4 * w + 2] = c.aboveOutputs[w]!;
       weakInts[8 * w + 6] = this.cornersAt + CORNER_RECORD * c.weakEnds[w]!;
+      weakInts[8 * w + 7] = c.nodePlaces[w]!;
     }
     const cornerFloats = new Float64Array(buffer, this.cornersAt, (CORNER_RECORD / 8) * cornerCount);
     const cornerInts = new Int32Array(buffer, this.cornersAt, (CORNER_RECORD / 4) * cornerCount);

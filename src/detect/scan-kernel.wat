@@ -31,14 +31,22 @@
   ;; The cascade at one scale, as three record arrays in evaluation order:
   ;;   stage (16 bytes):  threshold f64 @0, end of its weak records (address) i32 @8
   ;;   weak (32 bytes):   splitValue f64 @0, belowOutput f64 @8, aboveOutput f64 @16,
-  ;;                      end of its corner records (address) i32 @24
+  ;;                      end of its corner records (address) i32 @24,
+  ;;                      place in its tree i32 @28: (split count << 16) | heap index
   ;;   corner (16 bytes): offset (bytes) i32 @0, coefficient f64 @8
+  ;; A weak record is one split (node) of a weak classifier: a stump is one record
+  ;; (place 1 << 16); a tree of depth d is 2^d − 1 records, its splits in heap order
+  ;; (split k leads below to 2k + 1, above to 2k + 2), the bottom level's records
+  ;; holding the leaf outputs as their below/above outputs (0 in the others).
   ;; Stage k's weak records start where stage k − 1's end (the first at
   ;; weaksAt), and a weak classifier's corners likewise (the first at cornersAt).
   (global $stageCount (export "stageCount") (mut i32) (i32.const 0))
   (global $stagesAt (export "stagesAt") (mut i32) (i32.const 0))
   (global $weaksAt (export "weaksAt") (mut i32) (i32.const 0))
   (global $cornersAt (export "cornersAt") (mut i32) (i32.const 0))
+  ;; Tree scratch: 32 bytes per heap index, the path masks of the four windows of
+  ;; a group (half A @0, half B @16) for the split they reach.
+  (global $treeScratchAt (export "treeScratchAt") (mut i32) (i32.const 0))
   ;; Window corners (byte offsets) for σ, and 1 / pixels per window.
   (global $bottomRight (export "bottomRight") (mut i32) (i32.const 0))
   (global $bottomLeft (export "bottomLeft") (mut i32) (i32.const 0))
@@ -68,7 +76,8 @@
   ;; Windows go four at a time (two f64x2 halves, A and B) through each stage:
   ;; the score is Σ outputs from 0 in classifier order; a classifier's value is
   ;; Σ coefficient · entry over its corners from 0 in corner order, and it adds
-  ;; belowOutput when value · (1/σ) < splitValue, else aboveOutput. A window
+  ;; belowOutput when value · (1/σ) < splitValue, else aboveOutput (a tree adds
+  ;; the output of the leaf its splits lead to, once, after its last record). A window
   ;; passes when its margin, score − threshold, is ≥ 0. A window's evidence is
   ;; the sum of its margins over the stages it passed, added in stage order
   ;; (((m₀ + m₁) + m₂) + …, the first stage's margin alone at the first stage of
@@ -94,6 +103,8 @@
     (local $bottomRight i32) (local $bottomLeft i32) (local $topRight i32) (local $squaredDistance i32)
     (local $windowsAt i32) (local $inverseDeviationsAt i32) (local $scoresAt i32)
     (local $inverseCount v128) (local $flatVariance v128) (local $keepAllMask v128)
+    (local $place i32) (local $node i32) (local $splitCount i32) (local $pathAt i32)
+    (local $maskA v128) (local $maskB v128) (local $activeA v128) (local $activeB v128) (local $treeA v128) (local $treeB v128)
     ;; Globals into locals once per row (the loops then keep them in registers).
     (local.set $bottomRight (global.get $bottomRight))
     (local.set $bottomLeft (global.get $bottomLeft))
@@ -325,14 +336,51 @@
               (local.set $split (v128.load64_splat (local.get $weak)))
               (local.set $below (v128.load64_splat offset=8 (local.get $weak)))
               (local.set $above (v128.load64_splat offset=16 (local.get $weak)))
-              (local.set $scoreA
-                (f64x2.add (local.get $scoreA)
-                  (v128.bitselect (local.get $below) (local.get $above)
-                    (f64x2.lt (f64x2.mul (local.get $valueA) (local.get $inverseA)) (local.get $split)))))
-              (local.set $scoreB
-                (f64x2.add (local.get $scoreB)
-                  (v128.bitselect (local.get $below) (local.get $above)
-                    (f64x2.lt (f64x2.mul (local.get $valueB) (local.get $inverseB)) (local.get $split)))))
+              (local.set $maskA (f64x2.lt (f64x2.mul (local.get $valueA) (local.get $inverseA)) (local.get $split)))
+              (local.set $maskB (f64x2.lt (f64x2.mul (local.get $valueB) (local.get $inverseB)) (local.get $split)))
+              (local.set $place (i32.load offset=28 (local.get $weak)))
+              (if (i32.eq (local.get $place) (i32.const 0x10000))
+                (then
+                  ;; A stump: its output goes straight to the score.
+                  (local.set $scoreA (f64x2.add (local.get $scoreA) (v128.bitselect (local.get $below) (local.get $above) (local.get $maskA))))
+                  (local.set $scoreB (f64x2.add (local.get $scoreB) (v128.bitselect (local.get $below) (local.get $above) (local.get $maskB)))))
+                (else
+                  ;; A tree split. Every split is evaluated for all four windows (lanes stay in
+                  ;; lockstep); a lane's path mask says whether its window reaches this split. The
+                  ;; root is reached by all; a split hands its mask, split by its test, to its two
+                  ;; sides; at the bottom level each reached lane takes its leaf output. Exactly one
+                  ;; leaf is reached per lane, so OR-ing the masked outputs yields that leaf's bits,
+                  ;; which are added to the score once, after the tree's last split.
+                  (local.set $node (i32.and (local.get $place) (i32.const 0xffff)))
+                  (local.set $splitCount (i32.shr_u (local.get $place) (i32.const 16)))
+                  (if (i32.eqz (local.get $node))
+                    (then
+                      (local.set $activeA (v128.const i64x2 -1 -1))
+                      (local.set $activeB (v128.const i64x2 -1 -1))
+                      (local.set $treeA (v128.const i64x2 0 0))
+                      (local.set $treeB (v128.const i64x2 0 0)))
+                    (else
+                      (local.set $pathAt (i32.add (global.get $treeScratchAt) (i32.shl (local.get $node) (i32.const 5))))
+                      (local.set $activeA (v128.load (local.get $pathAt)))
+                      (local.set $activeB (v128.load offset=16 (local.get $pathAt)))))
+                  (if (i32.ge_u (local.get $node) (i32.shr_u (local.get $splitCount) (i32.const 1)))
+                    (then
+                      (local.set $treeA (v128.or (local.get $treeA)
+                        (v128.and (local.get $activeA) (v128.bitselect (local.get $below) (local.get $above) (local.get $maskA)))))
+                      (local.set $treeB (v128.or (local.get $treeB)
+                        (v128.and (local.get $activeB) (v128.bitselect (local.get $below) (local.get $above) (local.get $maskB)))))
+                      (if (i32.eq (local.get $node) (i32.sub (local.get $splitCount) (i32.const 1)))
+                        (then
+                          (local.set $scoreA (f64x2.add (local.get $scoreA) (local.get $treeA)))
+                          (local.set $scoreB (f64x2.add (local.get $scoreB) (local.get $treeB))))))
+                    (else
+                      ;; Sides 2k + 1 (below) and 2k + 2 (above), 32 bytes each.
+                      (local.set $pathAt (i32.add (global.get $treeScratchAt)
+                        (i32.shl (i32.add (i32.shl (local.get $node) (i32.const 1)) (i32.const 1)) (i32.const 5))))
+                      (v128.store (local.get $pathAt) (v128.and (local.get $activeA) (local.get $maskA)))
+                      (v128.store offset=16 (local.get $pathAt) (v128.and (local.get $activeB) (local.get $maskB)))
+                      (v128.store offset=32 (local.get $pathAt) (v128.andnot (local.get $activeA) (local.get $maskA)))
+                      (v128.store offset=48 (local.get $pathAt) (v128.andnot (local.get $activeB) (local.get $maskB)))))))
               (local.set $weak (i32.add (local.get $weak) (i32.const 32)))
               (br_if $nextWeak (i32.lt_u (local.get $weak) (local.get $weaksEnd)))))
             (local.set $scoreA (f64x2.sub (local.get $scoreA) (local.get $threshold)))

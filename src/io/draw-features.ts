@@ -1,4 +1,4 @@
-import type { CascadeModel, WeakClassifier } from '../cascade/cascade-model.js';
+import { weakClassifierSplits, type CascadeModel, type WeakClassifier } from '../cascade/cascade-model.js';
 import { featureCells } from '../features/haar-feature.js';
 import type { RgbImage } from './encode-image.js';
 
@@ -10,7 +10,7 @@ export const NEGATIVE_CELL_COLOUR = [40, 120, 255] as const;
 /**
  * A sheet of tiles, one row per stage and one tile per weak classifier: each
  * tile is the backdrop window (the model's mean positive, or mid gray) enlarged
- * `zoom` times with the feature's cells tinted half-way toward
+ * `zoom` times with the feature's cells (a tree's root split's) tinted half-way toward
  * POSITIVE_CELL_COLOUR (weight > 0) or NEGATIVE_CELL_COLOUR (weight < 0).
  * Tiles are separated by a 2-pixel dark gutter. Pure; returns RGB pixels.
  * @param backdrop windowWidth·windowHeight gray levels 0..255, row-major.
@@ -34,7 +34,7 @@ export function drawFeatureSheet(
       const left = gutter + c * (tileWidth + gutter);
       const top = gutter + r * (tileHeight + gutter);
       const tint = new Int8Array(windowWidth * windowHeight);
-      for (const cell of featureCells(weak.feature)) {
+      for (const cell of featureCells(weakClassifierSplits(weak)[0]!.feature)) {
         for (let y = cell.y; y < cell.y + cell.height; y++) {
           for (let x = cell.x; x < cell.x + cell.width; x++) tint[y * windowWidth + x] = cell.weight > 0 ? 1 : -1;
         }

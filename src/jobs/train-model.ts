@@ -1,6 +1,7 @@
 import { availableParallelism } from 'node:os';
 import { DEFAULT_NEGATIVE_PATCH_SHARE, heldOutCount, trainCascade, type CascadeTrainingOptions, type CascadeTrainingResult, type TrainingEvent } from '../cascade/build-cascade.js';
-import { newCascadeModel, type CascadeModel, type Stage } from '../cascade/cascade-model.js';
+import { MAX_TREE_DEPTH, newCascadeModel, type CascadeModel, type Stage } from '../cascade/cascade-model.js';
+import { checkInteger } from '../check.js';
 import { loadBackgroundImages } from '../data/backgrounds.js';
 import { loadPositiveWindows } from '../data/positives.js';
 import { RectboostError, isRectboostError } from '../errors.js';
@@ -76,6 +77,8 @@ export interface TrainModelOptions extends Partial<CascadeTargets> {
   readonly negativePatchShare?: number;
   /** Augmented copies of every training positive (default 0; see trainCascade's augmentCopies). */
   readonly augmentCopies?: number;
+  /** Depth of every weak classifier, 1..3 (default 1: decision stumps; see trainCascade's weakDepth). */
+  readonly weakDepth?: number;
   /** Train on the first N positives only. */
   readonly positiveLimit?: number;
   /** Name of the program, recorded in the provenance (default TOOL_NAME). */
@@ -156,6 +159,7 @@ export async function trainModel(given: TrainModelOptions): Promise<TrainedModel
     });
   const patchShare = options.negativePatchShare ?? DEFAULT_NEGATIVE_PATCH_SHARE;
   const augmentCopies = options.augmentCopies ?? 0;
+  const weakDepth = checkInteger('weak classifier depth', options.weakDepth ?? 1, 1, MAX_TREE_DEPTH);
   for (const line of [...positives.skipped, ...backgrounds.skipped, ...(patches?.skipped ?? [])]) emit({ phase: 'skipped', line: line.trim() });
   const positiveWindows = options.positiveLimit === undefined ? positives.windows : positives.windows.slice(0, options.positiveLimit);
   const minimumPositives = options.validationShare > 0 ? 3 : 2;
@@ -182,6 +186,8 @@ export async function trainModel(given: TrainModelOptions): Promise<TrainedModel
     ...(options.positiveLimit === undefined ? {} : { positiveLimit: options.positiveLimit }),
     ...(patches === undefined ? {} : { negativePatchShare: patchShare }),
     ...(augmentCopies === 0 ? {} : { augment: augmentCopies }),
+    // (recorded when not the default, so stump runs keep the provenance and checkpoints they had)
+    ...(weakDepth === 1 ? {} : { weakDepth }),
   };
   const fingerprint: TrainingFingerprint = {
     ...recorded,
@@ -248,6 +254,7 @@ export async function trainModel(given: TrainModelOptions): Promise<TrainedModel
       memoryBytes: options.memoryBytes,
       ...(patches === undefined ? {} : { negativePatches: patches.windows, negativePatchShare: patchShare }),
       augmentCopies,
+      weakDepth,
       stopWhenStalled: options.keepGoing !== true,
       pool,
       completedStages,

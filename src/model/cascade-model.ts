@@ -7,20 +7,101 @@ export const CASCADE_FORMAT = 'rectboost-cascade';
 export const CASCADE_VERSION = 1;
 
 /**
- * One weak classifier: a thresholded Haar-like feature (a decision stump).
- * On a window, let v be the feature's variance-normalized value (raw value / window σ,
- * see evaluateNormalizedFeature). The weak classifier adds `belowOutput` to the stage
- * score when v < splitValue and `aboveOutput` otherwise.
+ * One weak classifier: a decision stump or a small decision tree over Haar-like features.
+ * On a window, let v be a feature's variance-normalized value (raw value / window σ,
+ * see evaluateNormalizedFeature).
  *
- * Discrete AdaBoost stores ±α as the two outputs (Freund & Schapire 1997);
- * Gentle AdaBoost stores the two weighted means of the labels (Friedman, Hastie &
- * Tibshirani 2000). Both are plain real-valued outputs here.
+ * - DecisionStump (the default weak learner, and the only shape before trees existed):
+ *   adds `belowOutput` to the stage score when v < splitValue and `aboveOutput` otherwise.
+ * - DecisionTree: a tree of depth 2..MAX_TREE_DEPTH whose splits each test their own
+ *   feature the same way (v < splitValue goes `below`); the leaf reached adds its `output`.
+ *   A depth-1 tree is always written as a stump, so each weak classifier has one spelling.
+ *
+ * Discrete AdaBoost stores ±α as outputs (Freund & Schapire 1997); Gentle AdaBoost stores
+ * weighted means of the labels (Friedman, Hastie & Tibshirani 2000). Both are plain
+ * real-valued outputs here.
  */
-export interface WeakClassifier {
+export type WeakClassifier = DecisionStump | DecisionTree;
+
+/** A thresholded Haar-like feature with two outputs (see WeakClassifier). */
+export interface DecisionStump {
   readonly feature: HaarFeature;
   readonly splitValue: number;
   readonly belowOutput: number;
   readonly aboveOutput: number;
+}
+
+/** A small decision tree (see WeakClassifier); `tree` is its root split. */
+export interface DecisionTree {
+  readonly tree: TreeSplit;
+}
+
+/** One split of a decision tree: windows with v < splitValue take `below`, the others `above`. */
+export interface TreeSplit {
+  readonly feature: HaarFeature;
+  readonly splitValue: number;
+  readonly below: TreeBranch;
+  readonly above: TreeBranch;
+}
+
+/**
+ * A leaf of a decision tree: the output it adds. Trees may be incomplete — a node that
+ * was pure or had no split is a leaf above the bottom level.
+ */
+export interface TreeLeaf {
+  readonly output: number;
+}
+
+/** What a side of a tree split leads to. */
+export type TreeBranch = TreeSplit | TreeLeaf;
+
+/** Deepest tree a weak classifier may be (the scan kernel's node scratch holds this many levels). */
+export const MAX_TREE_DEPTH = 3;
+
+/** True for the tree shape of WeakClassifier. */
+export function isDecisionTree(weak: WeakClassifier): weak is DecisionTree {
+  return 'tree' in weak;
+}
+
+/** True when a tree branch is a leaf. */
+export function isTreeLeaf(branch: TreeBranch): branch is TreeLeaf {
+  return 'output' in branch;
+}
+
+/** Levels of splits below and including `branch`: 0 for a leaf, 1 for a split of two leaves. */
+export function branchDepth(branch: TreeBranch): number {
+  return isTreeLeaf(branch) ? 0 : 1 + Math.max(branchDepth(branch.below), branchDepth(branch.above));
+}
+
+/** Depth of a weak classifier: 1 for a stump, the tree's depth otherwise. */
+export function weakClassifierDepth(weak: WeakClassifier): number {
+  return isDecisionTree(weak) ? branchDepth(weak.tree) : 1;
+}
+
+/** Every split of a weak classifier in depth-first order (below before above): one for a stump. */
+export function weakClassifierSplits(weak: WeakClassifier): ReadonlyArray<Pick<TreeSplit, 'feature' | 'splitValue'>> {
+  if (!isDecisionTree(weak)) return [weak];
+  const splits: TreeSplit[] = [];
+  const visit = (branch: TreeBranch): void => {
+    if (isTreeLeaf(branch)) return;
+    splits.push(branch);
+    visit(branch.below);
+    visit(branch.above);
+  };
+  visit(weak.tree);
+  return splits;
+}
+
+/**
+ * The one spelling of a weak classifier with root split `root`: a stump when both sides
+ * are leaves, a tree otherwise.
+ * @example weakClassifierFromTree({ feature, splitValue: 0.1, below: { output: -1 }, above: { output: 1 } }) // a DecisionStump
+ */
+export function weakClassifierFromTree(root: TreeSplit): WeakClassifier {
+  if (isTreeLeaf(root.below) && isTreeLeaf(root.above)) {
+    return { feature: root.feature, splitValue: root.splitValue, belowOutput: root.below.output, aboveOutput: root.above.output };
+  }
+  return { tree: root };
 }
 
 /** What training measured for one stage (kept in the model as provenance). */

@@ -22,7 +22,7 @@ port.on('message', (request: WorkerRequest) => {
       reply = { id: request.id, type: 'built' };
     } else {
       const { job } = request;
-      const candidate = searchBestSplit(job.bins, job.sampleCount, job.positiveCount, job.weights, job.booster, request.featureStart, request.featureEnd, splitScratch);
+      const candidate = searchBestSplit(job.bins, job.sampleCount, job.positiveCount, job.weights, job.booster, request.featureStart, request.featureEnd, splitScratch, job.rule ?? 'stump');
       reply = { id: request.id, type: 'searched', candidate };
     }
   } catch (error) {

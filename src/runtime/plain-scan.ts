@@ -39,7 +39,7 @@ export function scanImagePlain(cascade: DetectorCascade, integral: IntegralImage
   const { sum, squaredSum: squared, stride } = integral;
   for (const scale of scanScales(cascade, integral.width, integral.height, resolved)) {
     const c = compileCascadeAtScale(cascade, scale, stride, resolved.shift);
-    const { windowWidth, windowHeight, step, stageEnds, thresholds, weakEnds, splitValues, belowOutputs, aboveOutputs, offsets, coefficients } = c;
+    const { windowWidth, windowHeight, step, stageEnds, thresholds, weakEnds, splitValues, belowOutputs, aboveOutputs, offsets, coefficients, nodePlaces } = c;
     const bottomRight = windowHeight * stride + windowWidth;
     const bottomLeft = windowHeight * stride;
     const topRight = windowWidth;
@@ -65,10 +65,29 @@ export function scanImagePlain(cascade: DetectorCascade, integral: IntegralImage
           let score = 0;
           const weakEnd = stageEnds[stage]!;
           statistics.featuresEvaluated += weakEnd - weak;
+          // A tree's records come in heap order; `reached` is the split the window's path is at
+          // (splits off the path are skipped: their values could not change the leaf).
+          let reached = 0;
           for (; weak < weakEnd; weak++) {
+            const place = nodePlaces[weak]!;
+            const node = place & 0xffff;
+            const splitCount = place >>> 16;
+            if (node !== reached) {
+              corner = weakEnds[weak]!;
+              if (node === splitCount - 1) reached = 0;
+              continue;
+            }
             let value = 0;
             for (const cornerEnd = weakEnds[weak]!; corner < cornerEnd; corner++) value += coefficients[corner]! * sum[at + offsets[corner]!]!;
-            score += value * inverseDeviation < splitValues[weak]! ? belowOutputs[weak]! : aboveOutputs[weak]!;
+            const below = value * inverseDeviation < splitValues[weak]!;
+            if (node >= splitCount >>> 1) {
+              // bottom level (a stump's one split is its bottom level): add the leaf, start the next tree at its root
+              score += below ? belowOutputs[weak]! : aboveOutputs[weak]!;
+              if (node === splitCount - 1) reached = 0;
+              else reached = -1;
+            } else {
+              reached = 2 * node + (below ? 1 : 2);
+            }
           }
           const margin = score - thresholds[stage]!;
           if (margin < 0) {

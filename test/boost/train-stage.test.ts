@@ -5,6 +5,7 @@ import { trainStage } from '../../src/boost/train-stage.js';
 import { thresholdForDetectionRate } from '../../src/boost/stage-threshold.js';
 import { detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
 import { detectorWeakClassifier } from '../../src/detect/detector-cascade.js';
+import { weakClassifierDepth } from '../../src/model/cascade-model.js';
 import { stageSampleScores } from '../../src/detect/window-list.js';
 import { enumerateFeatures } from '../../src/features/enumerate-features.js';
 import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
@@ -82,6 +83,27 @@ describeWithReferenceData('a stage trained on real faces vs non-faces (lfw_subse
       const testFalsePositive = rate(stageScores(stage, testNegatives), stage.threshold);
       expect(testDetection).toBeGreaterThanOrEqual(detectionFloor);
       expect(testFalsePositive).toBeLessThanOrEqual(falsePositiveCeiling);
+    });
+  }
+
+  for (const [booster, depth] of [['gentle', 2], ['discrete', 2], ['gentle', 3]] as const) {
+    it(`boosts depth-${depth} trees whose training scores are the kernel's scores of the model (${booster})`, async () => {
+      const result = await trainStage({
+        features: features.filter((_, i) => i % 4 === 0), positives, negatives, validationPositives: positives, booster,
+        minDetectionRate: 1, maxFalsePositiveRate: 0.05, maxWeakClassifiers: 20, weakDepth: depth, random: seedrandom('lfw-trees'),
+      });
+      const { stage } = result;
+      expect(stage.weakClassifiers.length).toBeGreaterThan(0);
+      expect(stage.weakClassifiers.every((weak) => weakClassifierDepth(weak) <= depth)).toBe(true);
+      // (with 50 + 50 samples, nodes turn pure early: a depth-3 tree may stop at depth 2)
+      expect(stage.weakClassifiers.some((weak) => weakClassifierDepth(weak) >= 2)).toBe(true);
+      // Training's rates come from matrix bins and running sums; the kernel scores the model's
+      // trees on real values: the two must agree exactly.
+      const scores = (samples: typeof positives): Float64Array =>
+        stageSampleScores(detectorCascadeFromModel({ window: { width: 25, height: 25 }, stages: [stage] }).stages[0]!, 25, 25, samples);
+      expect(rate(scores(positives), stage.threshold)).toBe(result.detectionRate);
+      expect(rate(scores(negatives), stage.threshold)).toBe(result.falsePositiveRate);
+      expect(result.stoppedBecause).toBe('targets-met');
     });
   }
 

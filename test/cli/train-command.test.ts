@@ -6,6 +6,7 @@ import { fileURLToPath } from 'node:url';
 import seedrandom from 'seedrandom';
 import sharp from 'sharp';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { weakClassifierDepth } from '../../src/cascade/cascade-model.js';
 import { parseCascadeModel } from '../../src/cascade/model-json.js';
 import { runCli } from '../helpers/run-cli.js';
 import { syntheticBackground, writeSyntheticTrainingData } from '../helpers/synthetic-data.js';
@@ -40,6 +41,8 @@ describe('rectboost train', () => {
       if (stage.training!.stoppedBecause === 'targets-met') expect(stage.training!.falsePositiveRate).toBeLessThanOrEqual(0.5);
     }
     expect(model.training!.data.positives).toBe(200);
+    // Without --weak-depth the provenance has no weakDepth: stump runs keep the fingerprint they had.
+    expect(model.training!.options['weakDepth']).toBeUndefined();
     expect(model.training!.timing).toBeUndefined();
     expect(existsSync(`${out.replace(/\.json$/, '')}.checkpoint`)).toBe(false);
   });
@@ -64,6 +67,32 @@ describe('rectboost train', () => {
     expect(model.stages[0]!.training!.negativesFromPatches).toBe(30);
     expect(result.stderr).toMatch(/stage 1 saved: .*200 negatives \(30 negative patches, 170 mined\)/);
     expect(result.stderr).toMatch(/stage\s+weak\s+detection\s+false pos\.\s+overall f\.p\.\s+negatives\s+patches/);
+  });
+
+  it('trains small decision trees with --weak-depth 2, records the depth, and the model detects and exports like any other', () => {
+    const out = join(root, 'trees.json');
+    // (--validation 0: on these 200 easy synthetic positives one depth-2 tree already separates
+    // the training samples perfectly, which ends boosting; with held-out positives the stage
+    // then cannot keep 0.98 of them, so thresholds are set on the training positives here)
+    const result = train(out, ['--weak-depth', '2', '--validation', '0', '--workers', '2']);
+    expect(result.stderr).toBe('');
+    expect(result.status).toBe(0);
+    const model = parseCascadeModel(readFileSync(out, 'utf8'), out);
+    expect(model.training!.options['weakDepth']).toBe(2);
+    const depths = model.stages.flatMap((stage) => stage.weakClassifiers.map(weakClassifierDepth));
+    expect(Math.max(...depths)).toBe(2);
+    const inspect = runCli(['inspect', out]);
+    expect(inspect.status).toBe(0);
+    expect(inspect.stdout).toMatch(/weak classifiers: \d+ decision trees \(depth ≤ 2\), \d+ stumps/);
+    // Both exports take trees (their scans are compared with detect in test/detect and test/runtime).
+    const exported = runCli(['export', out, '--out', join(root, 'trees.runtime.json'), '--c', join(root, 'trees-c')]);
+    expect(exported.status).toBe(0);
+  });
+
+  it('refuses --weak-depth outside 1..3 as a usage error', () => {
+    const result = train(join(root, 'never.json'), ['--weak-depth', '4']);
+    expect(result.status).toBe(2);
+    expect(result.stderr).toMatch(/--weak-depth/);
   });
 
   it('is deterministic: same data, options and seed give byte-identical models, with 1 or 2 workers', () => {

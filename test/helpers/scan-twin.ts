@@ -1,10 +1,12 @@
 import seedrandom from 'seedrandom';
-import type { CascadeModel } from '../../src/cascade/cascade-model.js';
+import { weakClassifierDepth, weakClassifierFromTree, type CascadeModel, type DecisionStump, type Stage, type TreeBranch, type TreeSplit, type WeakClassifier } from '../../src/cascade/cascade-model.js';
+import type { HaarFeature } from '../../src/features/haar-feature.js';
 import { resolveScanOptions, scanScales, type ScanOptions, type RawHits, type ScanStatistics } from '../../src/detect/scan-image.js';
 import { enumerateFeatures } from '../../src/features/enumerate-features.js';
 import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
 import type { IntegralImage } from '../../src/image/integral-image.js';
 import { windowStatistics } from '../../src/image/window-statistics.js';
+import { twinWeakOutput } from './window-twin.js';
 
 /** What the twin found: hits as "x,y,width,height,score" strings (score: the evidence, see RawHits) and the scan's counters. */
 export interface TwinScan {
@@ -40,9 +42,10 @@ export function scanTwin(model: CascadeModel, integral: IntegralImage, options: 
         const failedAt = model.stages.findIndex((stage, k) => {
           let score = 0;
           for (const weak of stage.weakClassifiers) {
-            score += evaluateNormalizedFeature(integral, weak.feature, x, y, windowWidth, windowHeight, scale) < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
+            score += twinWeakOutput(weak, (feature) => evaluateNormalizedFeature(integral, feature, x, y, windowWidth, windowHeight, scale));
+            // The scan counts split records: one per stump, 2^d − 1 per tree of depth d (its full heap form).
+            statistics.featuresEvaluated += 2 ** weakClassifierDepth(weak) - 1;
           }
-          statistics.featuresEvaluated += stage.weakClassifiers.length;
           const margin = score - stage.threshold;
           // Evidence: the margins of the stages passed, added in stage order (RawHits).
           evidence = k === 0 ? margin : evidence + margin;
@@ -71,7 +74,7 @@ export function hitStrings(hits: RawHits): string[] {
  * in (−1, 0], above outputs in [0, 1); a lone classifier gets threshold 0 (the only
  * one at which it can reject), larger stages a threshold in (−0.3, 0].
  */
-export function randomCascadeModel(seed: string, stageSizes: number[], window = { width: 12, height: 10 }): CascadeModel {
+export function randomCascadeModel(seed: string, stageSizes: number[], window = { width: 12, height: 10 }): CascadeModel & { readonly stages: ReadonlyArray<Stage & { readonly weakClassifiers: readonly DecisionStump[] }> } {
   const random = seedrandom(seed);
   const features = enumerateFeatures(window.width, window.height);
   return {
@@ -81,6 +84,31 @@ export function randomCascadeModel(seed: string, stageSizes: number[], window = 
       weakClassifiers: Array.from({ length: size }, () => ({
         feature: features[Math.floor(random() * features.length)]!, splitValue: random() - 0.5, belowOutput: -random(), aboveOutput: random(),
       })),
+    })),
+  };
+}
+
+/**
+ * A cascade of random decision trees (and stumps) on a 12×10 window, seeded: weak
+ * classifier i of stage k is a tree of depth up to `depth` (every third one a stump);
+ * below the root a node ends early with probability ¼, so incomplete trees occur; splits
+ * in [−0.5, 0.5), leaf outputs in [−1, 1); thresholds as in randomCascadeModel.
+ */
+export function randomTreeCascadeModel(seed: string, stageSizes: number[], depth: number, window = { width: 12, height: 10 }): CascadeModel {
+  const random = seedrandom(seed);
+  const features = enumerateFeatures(window.width, window.height);
+  const feature = (): HaarFeature => features[Math.floor(random() * features.length)]!;
+  const branch = (level: number): TreeBranch => {
+    if (level > depth || (level > 1 && random() < 0.25)) return { output: 2 * random() - 1 };
+    return { feature: feature(), splitValue: random() - 0.5, below: branch(level + 1), above: branch(level + 1) };
+  };
+  return {
+    format: 'rectboost-cascade', version: 1, window, normalization: 'window-standard-deviation', featureSet: 'basic',
+    stages: stageSizes.map((size) => ({
+      threshold: size === 1 ? 0 : -0.3 * random(),
+      weakClassifiers: Array.from({ length: size }, (_, i): WeakClassifier => (i % 3 === 2
+        ? { feature: feature(), splitValue: random() - 0.5, belowOutput: -random(), aboveOutput: random() }
+        : weakClassifierFromTree(branch(1) as TreeSplit))),
     })),
   };
 }

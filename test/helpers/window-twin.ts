@@ -1,4 +1,5 @@
-import type { CascadeModel, Stage } from '../../src/cascade/cascade-model.js';
+import { isDecisionTree, isTreeLeaf, type CascadeModel, type Stage, type TreeBranch, type WeakClassifier } from '../../src/cascade/cascade-model.js';
+import type { HaarFeature } from '../../src/features/haar-feature.js';
 import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
 import type { GrayImage } from '../../src/image/gray-image.js';
 import { computeIntegralImage } from '../../src/image/integral-image.js';
@@ -21,13 +22,24 @@ export interface TwinDepth {
   readonly evidence: number;
 }
 
+/**
+ * A weak classifier's output, the obvious way: a stump compares its feature's value with
+ * its split; a tree walks from its root, each split sending v < splitValue below, to a leaf.
+ */
+export function twinWeakOutput(weak: WeakClassifier, valueOf: (feature: HaarFeature) => number): number {
+  if (!isDecisionTree(weak)) return valueOf(weak.feature) < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
+  let branch: TreeBranch = weak.tree;
+  while (!isTreeLeaf(branch)) branch = valueOf(branch.feature) < branch.splitValue ? branch.below : branch.above;
+  return branch.output;
+}
+
 /** Σ outputs of one stage on one window; −∞ for a flat window. */
 export function twinStageScore(stage: Pick<Stage, 'weakClassifiers'>, window: GrayImage): number {
   const integral = computeIntegralImage(window);
   if (windowInverseDeviation(integral, 0, 0, window.width, window.height) === 0) return -Infinity;
   let score = 0;
   for (const weak of stage.weakClassifiers) {
-    score += evaluateNormalizedFeature(integral, weak.feature, 0, 0, window.width, window.height) < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
+    score += twinWeakOutput(weak, (feature) => evaluateNormalizedFeature(integral, feature, 0, 0, window.width, window.height));
   }
   return score;
 }

@@ -45,6 +45,18 @@ describeWithReferenceData('boosting pool', ['lfw_subset.npy'], () => {
     });
   }
 
+  for (const booster of ['discrete', 'gentle'] as const) {
+    it(`gives byte-identical stages of depth-2 trees with 1 worker, 2 workers and no pool (${booster})`, async () => {
+      const options = { ...base(booster), weakDepth: 2, maxWeakClassifiers: 4 };
+      const inThread = await trainStage({ ...options, random: seedrandom('pool-trees') });
+      const withOne = await trainStage({ ...options, pool: one, random: seedrandom('pool-trees') });
+      const withTwo = await trainStage({ ...options, pool: two, random: seedrandom('pool-trees') });
+      expect(inThread.stage.weakClassifiers.some((weak) => 'tree' in weak)).toBe(true);
+      expect(JSON.stringify(withOne.stage)).toBe(JSON.stringify(inThread.stage));
+      expect(JSON.stringify(withTwo.stage)).toBe(JSON.stringify(withOne.stage));
+    });
+  }
+
   it('refuses work after close', async () => {
     const pool = await createBoostingPool(1);
     await pool.close();

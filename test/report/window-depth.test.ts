@@ -11,6 +11,7 @@ import type { Box } from '../../src/metrics/intersection-over-union.js';
 import { windowDepthNearBox } from '../../src/report/window-depth.js';
 import { randomGrayImage } from '../helpers/random-image.js';
 import { randomCascadeModel } from '../helpers/scan-twin.js';
+import { twinWeakOutput } from '../helpers/window-twin.js';
 
 /**
  * Stages passed by one window, the obvious way on the whole image's integral
@@ -24,7 +25,7 @@ function twinStagesPassed(model: CascadeModel, integral: IntegralImage, window: 
   for (const stage of model.stages) {
     let score = 0;
     for (const weak of stage.weakClassifiers) {
-      score += evaluateNormalizedFeature(integral, weak.feature, x, y, model.window.width, model.window.height, scale) < weak.splitValue ? weak.belowOutput : weak.aboveOutput;
+      score += twinWeakOutput(weak, (feature) => evaluateNormalizedFeature(integral, feature, x, y, model.window.width, model.window.height, scale));
     }
     if (score < stage.threshold) break;
     passed++;

@@ -12,6 +12,8 @@ import { encodeGrayPng } from '../../src/io/encode-image.js';
 import { cropGrayImage } from '../../src/image/gray-image.js';
 import { parseCascadeModel } from '../../src/cascade/model-json.js';
 import { REFERENCE_DATA, shouldRunWith } from '../data/reference-files.js';
+import { serializeCascadeModel } from '../../src/cascade/model-json.js';
+import { randomTreeCascadeModel } from '../helpers/scan-twin.js';
 import { runCli } from '../helpers/run-cli.js';
 
 // The C99 export against the CLI. Needs the system C compiler (Debian gcc, installed by
@@ -151,6 +153,27 @@ describe.skipIf(!haveCompiler)(`C99 export compiled with ${compiler ?? 'cc'}`, (
     const c = runC(program, ['--no-timing', pgm]);
     expect(c.stderr).toBe('');
     expect(c.stdout).toMatch(/"support":\d+/);
+    expectSameText(c.stdout, readFileSync(out, 'utf8').replace(JSON.stringify(source), JSON.stringify(pgm)));
+  });
+
+  it('a cascade of decision trees (depths 2 and 3, incomplete ones among them) prints the same JSON lines as detect, float build', async () => {
+    const treeDir = join(dir, 'trees');
+    const model = join(dir, 'trees.json');
+    // Thresholds lowered so that windows reach the later stages and some are accepted.
+    const random = randomTreeCascadeModel('c-trees', [2, 3, 3], 3);
+    writeFileSync(model, serializeCascadeModel({ ...random, stages: random.stages.map((stage) => ({ ...stage, threshold: stage.threshold - 1 })) }));
+    exportC(model, treeDir);
+    const program = compileC(treeDir, 'detect-trees', 'float', C_SANITIZER_FLAGS);
+    const crop = cropGrayImage(await decodeGrayImageFile(`${PANELS}p01.png`), 40, 190, 64, 48);
+    const source = join(dir, 'tree-crop.png');
+    const pgm = join(dir, 'tree-crop.pgm');
+    writeFileSync(source, await encodeGrayPng(crop));
+    writePgm(pgm, crop);
+    const out = join(dir, 'trees.jsonl');
+    expect(runCli(['detect', model, source, '--no-timing', '--quiet', '--workers', '0', '--merge', 'none', '--out', out]).status).toBe(0);
+    const c = runC(program, ['--no-timing', '--merge', 'none', pgm]);
+    expect(c.stderr).toBe('');
+    expect(c.stdout).toMatch(/"score"/);
     expectSameText(c.stdout, readFileSync(out, 'utf8').replace(JSON.stringify(source), JSON.stringify(pgm)));
   });
 

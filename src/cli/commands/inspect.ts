@@ -1,5 +1,6 @@
 import type { Command } from 'commander';
 import { writeFileAtomic } from '../../io/atomic-write.js';
+import { weakClassifierDepth } from '../../cascade/cascade-model.js';
 import { drawModelFeatureSheet } from '../../io/draw-features.js';
 import { encodeRgbPng } from '../../io/encode-image.js';
 import { loadModelFile } from '../../io/model-file.js';
@@ -39,6 +40,9 @@ export function registerInspectCommand(program: Command): void {
       });
       const total = model.stages.reduce((n, stage) => n + stage.weakClassifiers.length, 0);
       out.push(`total weak classifiers: ${total}`);
+      const depths = model.stages.flatMap((stage) => stage.weakClassifiers.map(weakClassifierDepth));
+      const trees = depths.filter((depth) => depth > 1).length;
+      if (trees > 0) out.push(`weak classifiers: ${trees} decision trees (depth ≤ ${Math.max(...depths)}), ${total - trees} stumps`);
       process.stdout.write(`${out.join('\n')}\n`);
       if (options.draw !== undefined) {
         const sheet = drawModelFeatureSheet(model, stagesToDraw, featuresToDraw, zoom);

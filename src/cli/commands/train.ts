@@ -1,6 +1,7 @@
 import { resolve } from 'node:path';
 import type { Command } from 'commander';
 import type { BoosterKind } from '../../boost/booster.js';
+import { MAX_TREE_DEPTH } from '../../cascade/cascade-model.js';
 import { DEFAULT_NEGATIVE_PATCH_SHARE, formatRate, type StageReport } from '../../cascade/build-cascade.js';
 import { RectboostError } from '../../errors.js';
 import { detectorCascadeFromModel } from '../../detect/detector-cascade.js';
@@ -38,6 +39,7 @@ interface TrainFlags extends ReportFlags {
   negativePatches?: string;
   negativePatchShare: string;
   augment: string;
+  weakDepth: string;
 }
 
 /** `rectboost train`: folders in, model JSON out, with checkpoints after every stage. */
@@ -56,6 +58,7 @@ export function registerTrainCommand(program: Command): void {
     .option('--max-weak <count>', 'most weak classifiers per stage', String(DEFAULTS.maxWeakClassifiers))
     .option('--negatives <count>', 'negatives mined for every stage', String(DEFAULTS.negativesPerStage))
     .option('--booster <kind>', 'discrete or gentle AdaBoost', DEFAULTS.booster)
+    .option('--weak-depth <levels>', 'depth of each weak classifier: 1 boosts decision stumps, 2 or 3 small decision trees', '1')
     .option('--features <set>', 'feature set: basic (extended is not built yet)', 'basic')
     .option('--mirror', 'add left-right mirrored copies of the positives')
     .option('--augment <copies>', 'seeded augmented copies of every training positive (small shifts, scales, rotations, contrast and brightness)', '0')
@@ -128,6 +131,7 @@ async function runTrain(flags: TrainFlags): Promise<void> {
     ...(flags.negativePatches === undefined ? {} : { negativePatches: flags.negativePatches }),
     negativePatchShare: parseNumber('--negative-patch-share', flags.negativePatchShare, 0, 1),
     augmentCopies: parseInteger('--augment', flags.augment, 0, 100),
+    weakDepth: parseInteger('--weak-depth', flags.weakDepth, 1, MAX_TREE_DEPTH),
   };
   const progress = new ProgressLine(flags.quiet === true);
 
@@ -178,7 +182,7 @@ function showEvent(progress: ProgressLine, event: TrainModelEvent, options: Trai
       progress.log(
         `data: ${event.positives} positives${options.mirror ? ' (+ mirrored copies)' : ''}${options.augmentCopies ? ` (+ ${options.augmentCopies} augmented copies each in training)` : ''}, ` +
           `${event.backgroundImages} background images${options.negativePatches === undefined ? '' : `, ${event.negativePatches} negative patches`}; ` +
-          `window ${options.windowWidth}×${options.windowHeight}, ${options.booster} AdaBoost, ${event.workers} worker${event.workers === 1 ? '' : 's'}`,
+          `window ${options.windowWidth}×${options.windowHeight}, ${options.booster} AdaBoost${options.weakDepth !== undefined && options.weakDepth > 1 ? ` on depth-${options.weakDepth} trees` : ''}, ${event.workers} worker${event.workers === 1 ? '' : 's'}`,
       );
       break;
     case 'resumed':
