@@ -1,7 +1,7 @@
 import { FieldChecks } from '../check.js';
 import { RectboostError } from '../errors.js';
 import { MAX_WINDOW_SIDE } from '../features/enumerate-features.js';
-import { BASIC_FEATURE_KINDS } from '../features/feature-kind.js';
+import { FEATURE_SET_KINDS, FEATURE_SET_NAMES, type FeatureSetName } from '../features/feature-kind.js';
 import { featureFitsWindow, type HaarFeature } from '../features/haar-feature.js';
 import {
   CASCADE_FORMAT,
@@ -179,7 +179,8 @@ export function validateCascadeModel(raw: unknown, label: string): CascadeModel 
   const width = v.integer(windowObject.width, 'window.width', 1, MAX_WINDOW_SIDE);
   const height = v.integer(windowObject.height, 'window.height', 1, MAX_WINDOW_SIDE);
   v.constant(root.normalization, 'normalization', 'window-standard-deviation');
-  v.constant(root.featureSet, 'featureSet', 'basic');
+  // The set names which kinds the stages may use: basic models never hold tilted or centre-surround kinds.
+  const featureSet = v.oneOf(root.featureSet, 'featureSet', FEATURE_SET_NAMES);
   const stagesRaw = v.array(root.stages, 'stages', MODEL_LIMITS.maxStages);
   let totalWeak = 0;
   const stages: Stage[] = stagesRaw.map((stageRaw, s) => {
@@ -191,7 +192,7 @@ export function validateCascadeModel(raw: unknown, label: string): CascadeModel 
     if (totalWeak > MODEL_LIMITS.maxWeakClassifiersTotal) {
       v.fail(`${path}.weakClassifiers`, `brings the total above ${MODEL_LIMITS.maxWeakClassifiersTotal} weak classifiers`);
     }
-    const weakClassifiers = weakRaw.map((w, i) => parseWeak(v, w, `${path}.weakClassifiers[${i}]`, width, height));
+    const weakClassifiers = weakRaw.map((w, i) => parseWeak(v, w, `${path}.weakClassifiers[${i}]`, width, height, featureSet));
     const stage: Stage = { threshold, weakClassifiers };
     if (stageObject.training === undefined) return stage;
     return { ...stage, training: parseStageRecord(v, stageObject.training, `${path}.training`) };
@@ -201,7 +202,7 @@ export function validateCascadeModel(raw: unknown, label: string): CascadeModel 
     version: CASCADE_VERSION,
     window: { width, height },
     normalization: 'window-standard-deviation',
-    featureSet: 'basic',
+    featureSet,
     stages,
   };
   if (root.meanPositive !== undefined) {
@@ -213,11 +214,11 @@ export function validateCascadeModel(raw: unknown, label: string): CascadeModel 
   return model;
 }
 
-function parseWeak(v: FieldChecks, raw: unknown, path: string, width: number, height: number): WeakClassifier {
+function parseWeak(v: FieldChecks, raw: unknown, path: string, width: number, height: number, featureSet: FeatureSetName): WeakClassifier {
   const weak = v.object(raw, path, ['feature', 'splitValue', 'belowOutput', 'aboveOutput'], []);
   const featureObject = v.object(weak.feature, `${path}.feature`, ['kind', 'x', 'y', 'cellWidth', 'cellHeight'], []);
   const feature: HaarFeature = {
-    kind: v.oneOf(featureObject.kind, `${path}.feature.kind`, BASIC_FEATURE_KINDS),
+    kind: v.oneOf(featureObject.kind, `${path}.feature.kind (of the ${featureSet} feature set)`, FEATURE_SET_KINDS[featureSet]),
     x: v.integer(featureObject.x, `${path}.feature.x`, 0, MAX_WINDOW_SIDE),
     y: v.integer(featureObject.y, `${path}.feature.y`, 0, MAX_WINDOW_SIDE),
     cellWidth: v.integer(featureObject.cellWidth, `${path}.feature.cellWidth`, 1, MAX_WINDOW_SIDE),

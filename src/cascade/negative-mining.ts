@@ -1,7 +1,7 @@
 import { cropGrayImage, resizeGrayImage, type GrayImage } from '../image/gray-image.js';
 import { detectorCascadeFromModel, type DetectorCascade } from '../detect/detector-cascade.js';
 import { WindowListEvaluator } from '../detect/window-list.js';
-import { computeIntegralImage, type IntegralImage } from '../image/integral-image.js';
+import { computeIntegralImage, type IntegralImage, type IntegralImageOptions } from '../image/integral-image.js';
 import type { CascadeModel } from './cascade-model.js';
 
 /**
@@ -29,6 +29,7 @@ const VISIT_CHUNK = 256;
  * every image is shrunk by 1.25^k while the detector window still fits.
  * Level images and their integral tables are built lazily and cached up to a
  * byte budget, so large background sets do not have to fit in memory at once.
+ * With `tableOptions.rotated` the tables hold the rotated part too, for tilted features.
  */
 export class BackgroundWindows {
   readonly sheets: readonly PyramidSheet[];
@@ -43,6 +44,8 @@ export class BackgroundWindows {
     readonly windowWidth: number,
     readonly windowHeight: number,
     private readonly cacheBudgetBytes = 1024 ** 3,
+    /** `{ rotated: true }` for cascades with tilted features (the extended set). */
+    private readonly tableOptions: IntegralImageOptions = {},
   ) {
     const sheets: PyramidSheet[] = [];
     images.forEach((image, imageIndex) => {
@@ -74,17 +77,22 @@ export class BackgroundWindows {
     const sheet = this.sheets[sheetIndex]!;
     const source = this.images[sheet.imageIndex]!;
     const image = sheet.scale === 1 ? source : resizeGrayImage(source, sheet.width, sheet.height);
-    const entry = { image, integral: computeIntegralImage(image) };
-    const bytes = image.width * image.height * 17;
+    const entry = { image, integral: computeIntegralImage(image, this.tableOptions) };
+    const bytes = image.width * image.height * this.bytesPerPixel();
     while (this.cachedBytes + bytes > this.cacheBudgetBytes && this.cache.size > 0) {
       const oldest = this.cache.keys().next().value as number;
       const old = this.cache.get(oldest)!;
-      this.cachedBytes -= old.image.width * old.image.height * 17;
+      this.cachedBytes -= old.image.width * old.image.height * this.bytesPerPixel();
       this.cache.delete(oldest);
     }
     this.cache.set(sheetIndex, entry);
     this.cachedBytes += bytes;
     return entry;
+  }
+
+  /** Pixel byte plus 8 bytes per table entry (upright, squared, and rotated when built). */
+  private bytesPerPixel(): number {
+    return this.tableOptions.rotated === true ? 25 : 17;
   }
 
   /** Sheet index and position of a global window index in [0, totalWindows). */

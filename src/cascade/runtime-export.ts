@@ -12,16 +12,21 @@ export const RUNTIME_CASCADE_VERSION = 1;
 /**
  * The runtime-only cascade file (schema/runtime-cascade.schema.json): what a
  * detector needs and nothing else. Every feature is spelled out as weighted
- * rectangles `[x, y, width, height, weight]` in window pixels, so any runtime
- * can evaluate it without knowing rectboost's feature kinds:
+ * rectangles `[x, y, width, height, weight]` in window pixels, or
+ * `[x, y, width, height, weight, 1]` for a 45° tilted rectangle (top corner x, y;
+ * width steps down-right, height steps down-left; summed on the rotated table,
+ * see tiltedRectangleSum), so any runtime can evaluate it without knowing
+ * rectboost's feature kinds:
  *
  *   value = Σ weight · (pixel sum over the rectangle) / σ(window)
  *   vote  = value < split ? below : above
  *   a window passes a stage when Σ votes ≥ threshold, and is detected when it passes all stages.
  *
  * σ is the population standard deviation of the window's pixels; windows with
- * variance below 1e-4 are rejected. At scale s, each rectangle edge is scaled
- * and rounded (Math.round) and its weight multiplied by (w·h)/(w_s·h_s).
+ * variance below 1e-4 are rejected. At scale s, each rectangle is scaled by
+ * scaleRectangle (upright: each edge scaled and rounded with Math.round; tilted:
+ * corners rounded in rotated coordinates, then kept inside the window) and its
+ * weight multiplied by (w·h)/(w_s·h_s).
  */
 export interface RuntimeCascadeFile {
   readonly format: typeof RUNTIME_CASCADE_FORMAT;
@@ -31,7 +36,7 @@ export interface RuntimeCascadeFile {
   readonly stages: ReadonlyArray<{
     readonly threshold: number;
     readonly classifiers: ReadonlyArray<{
-      readonly rectangles: ReadonlyArray<readonly [number, number, number, number, number]>;
+      readonly rectangles: ReadonlyArray<readonly [number, number, number, number, number] | readonly [number, number, number, number, number, 1]>;
       readonly split: number;
       readonly below: number;
       readonly above: number;
@@ -61,7 +66,7 @@ export function runtimeFileFromDetector(cascade: DetectorCascade): RuntimeCascad
     stages: cascade.stages.map((stage) => ({
       threshold: stage.threshold,
       classifiers: stage.weakClassifiers.map((weak) => ({
-        rectangles: weak.rectangles.map((r) => [r.x, r.y, r.width, r.height, r.weight] as const),
+        rectangles: weak.rectangles.map((r) => (r.tilted === true ? ([r.x, r.y, r.width, r.height, r.weight, 1] as const) : ([r.x, r.y, r.width, r.height, r.weight] as const))),
         split: weak.splitValue,
         below: weak.belowOutput,
         above: weak.aboveOutput,
@@ -73,8 +78,8 @@ export function runtimeFileFromDetector(cascade: DetectorCascade): RuntimeCascad
 /**
  * Parses and validates a runtime cascade file (JSON text) into a DetectorCascade.
  * Checks every field before use: known format and version, integer window
- * sides in 1..4096, finite numbers, integer rectangles of positive size inside
- * the window, and the RUNTIME_LIMITS counts.
+ * sides in 1..4096, finite numbers, integer rectangles (upright or tilted) of
+ * positive size inside the window, and the RUNTIME_LIMITS counts.
  * @param label names the source (a file path) in error messages.
  * @throws RectboostError `bad-model` naming the label and the field.
  */
@@ -102,7 +107,17 @@ export function runtimeCascadeFromValue(raw: unknown, label: string): DetectorCa
       if (rectangleValues.length === 0) v.expected(`${where}.rectangles`, 'a non-empty array', rectangleValues);
       const rectangles = rectangleValues.map((value, r) => {
         const field = `${where}.rectangles[${r}]`;
-        if (!Array.isArray(value) || value.length !== 5) return v.expected(field, '[x, y, width, height, weight]', value);
+        if (!Array.isArray(value) || (value.length !== 5 && value.length !== 6)) return v.expected(field, '[x, y, width, height, weight] or [x, y, width, height, weight, 1] (tilted)', value);
+        if (value.length === 6) {
+          v.constant(value[5], `${field}[5] (tilted)`, 1);
+          // A tilted rectangle's footprint is x − height .. x + width across, y .. y + width + height down.
+          const x = v.integer(value[0], `${field}[0] (x)`, 1, windowWidth - 1);
+          const y = v.integer(value[1], `${field}[1] (y)`, 0, windowHeight - 2);
+          const width = v.integer(value[2], `${field}[2] (width, inside the window)`, 1, Math.min(windowWidth - x, windowHeight - y - 1));
+          const height = v.integer(value[3], `${field}[3] (height, inside the window)`, 1, Math.min(x, windowHeight - y - width));
+          const weight = v.finite(value[4], `${field}[4] (weight)`);
+          return { x, y, width, height, weight, tilted: true };
+        }
         const x = v.integer(value[0], `${field}[0] (x)`, 0, windowWidth - 1);
         const y = v.integer(value[1], `${field}[1] (y)`, 0, windowHeight - 1);
         const width = v.integer(value[2], `${field}[2] (width, inside the window)`, 1, windowWidth - x);

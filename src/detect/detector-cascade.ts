@@ -52,3 +52,12 @@ export function detectorCascadeFromModel(model: Pick<CascadeModel, 'window' | 's
 export function detectorWeakClassifier(weak: WeakClassifier): DetectorWeakClassifier {
   return { rectangles: featureCells(weak.feature), splitValue: weak.splitValue, belowOutput: weak.belowOutput, aboveOutput: weak.aboveOutput };
 }
+
+/**
+ * True when some weak classifier has a tilted rectangle: the cascade then needs the
+ * rotated table (computeIntegralImage(image, { rotated: true })), and basic cascades
+ * keep the upright tables alone.
+ */
+export function cascadeUsesTiltedFeatures(cascade: Pick<DetectorCascade, 'stages'>): boolean {
+  return cascade.stages.some((stage) => stage.weakClassifiers.some((weak) => weak.rectangles.some((rectangle) => rectangle.tilted === true)));
+}
