@@ -218,7 +218,7 @@ function parseWeak(v: FieldChecks, raw: unknown, path: string, width: number, he
   const weak = v.object(raw, path, ['feature', 'splitValue', 'belowOutput', 'aboveOutput'], []);
   const featureObject = v.object(weak.feature, `${path}.feature`, ['kind', 'x', 'y', 'cellWidth', 'cellHeight'], []);
   const feature: HaarFeature = {
-    kind: v.oneOf(featureObject.kind, `${path}.feature.kind (of the ${featureSet} feature set)`, FEATURE_SET_KINDS[featureSet]),
+    kind: v.oneOf(featureObject.kind, `${path}.feature.kind`, FEATURE_SET_KINDS[featureSet]),
     x: v.integer(featureObject.x, `${path}.feature.x`, 0, MAX_WINDOW_SIDE),
     y: v.integer(featureObject.y, `${path}.feature.y`, 0, MAX_WINDOW_SIDE),
     cellWidth: v.integer(featureObject.cellWidth, `${path}.feature.cellWidth`, 1, MAX_WINDOW_SIDE),

@@ -96,10 +96,11 @@ export function featureCells(feature: HaarFeature): WeightedRectangle[] {
  * leaves the rounded window.
  *
  * Tilted: each corner is mapped on its own in rotated coordinates u = x + y,
- * v = y − x: u and v are scaled and rounded to the nearest integer of the corner's
- * parity (x + y mod 2, which a tilted rectangle's four corners share), so the result
- * is again a 45° rectangle, corners shared in the base window stay shared, and
- * scale 1 changes nothing. Rounding can push a rectangle that touches the window's
+ * v = y − x: u · scale and v · scale are rounded to the nearest integer of parity
+ * round(p · scale) mod 2, where p = (x + y) mod 2 is the parity that a tilted
+ * rectangle's four corners (and all corners of a tilted grid) share. So the result is
+ * again a 45° rectangle, corners shared in the base window stay shared, scale 1
+ * changes nothing and an integer scale k maps corner (x, y) to (kx, ky). Rounding can push a rectangle that touches the window's
  * edge one or two pixels out; then its sides are shortened (the longer first) until
  * it fits and it is moved back inside, the only case where neighbours can part.
  *
@@ -117,7 +118,8 @@ export function scaleRectangle(rectangle: WeightedRectangle, scale: number, scal
     const scaledHeight = bottom - top;
     return { x: left, y: top, width: scaledWidth, height: scaledHeight, weight: (weight * width * height) / (scaledWidth * scaledHeight) };
   }
-  const parity = (((x + y) % 2) + 2) % 2;
+  // A corner's x + y parity, scaled: k times it for an integer scale k, so that scale 2 maps (x, y) to (2x, 2y).
+  const parity = Math.round(((((x + y) % 2) + 2) % 2) * scale) % 2;
   const nearest = (value: number): number => parity + 2 * Math.round((value * scale - parity) / 2);
   const u0 = nearest(x + y);
   const u1 = nearest(x + y + 2 * width);
