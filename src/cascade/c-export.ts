@@ -1,5 +1,5 @@
 import { RectboostError } from '../errors.js';
-import type { DetectorCascade } from '../detect/detector-cascade.js';
+import { cascadeUsesTiltedFeatures, type DetectorCascade } from '../detect/detector-cascade.js';
 
 /** The texts of runtime-c/ that every export shares: the header with @NAME@ placeholders and the detector code. */
 export interface CDetectorTemplates {
@@ -38,9 +38,13 @@ export const C_INTEGER_MAX_WINDOW_PIXELS = 66051;
  * of the integer build can overflow: with B the largest Σ |weight| · area of a
  * classifier, a feature value is at most 255 · B · 2^Q and is multiplied by
  * n · 2^7 ≤ 66,051 · 128; a split value times 2^7 · n · σ ≤ 2^7 · 66,051 · 127.5.
- * @throws RectboostError `bad-model` when no Q ≥ 4 fits (then the integer build would be too coarse).
+ * @throws RectboostError `bad-model` when no Q ≥ 4 fits (then the integer build would be too coarse),
+ *   and for cascades with tilted features (the extended set): runtime-c/ has no rotated table yet.
  */
 export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTemplates, label: string): CDetectorExport {
+  if (cascadeUsesTiltedFeatures(cascade)) {
+    throw new RectboostError('bad-model', `Cascade ${label} uses tilted features (feature set extended), which the C detector does not evaluate yet; export it for the browser runtime, or train with --features basic for C.`);
+  }
   const stages = cascade.stages;
   const classifiers = stages.flatMap((stage) => stage.weakClassifiers);
   const rectangles = classifiers.flatMap((weak) => weak.rectangles);
