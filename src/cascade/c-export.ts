@@ -38,13 +38,12 @@ export const C_INTEGER_MAX_WINDOW_PIXELS = 66051;
  * of the integer build can overflow: with B the largest Σ |weight| · area of a
  * classifier, a feature value is at most 255 · B · 2^Q and is multiplied by
  * n · 2^7 ≤ 66,051 · 128; a split value times 2^7 · n · σ ≤ 2^7 · 66,051 · 127.5.
- * @throws RectboostError `bad-model` when no Q ≥ 4 fits (then the integer build would be too coarse),
- *   and for cascades with tilted features (the extended set): runtime-c/ has no rotated table yet.
+ * Tilted rectangles (extended set): RBD_TILTED is 1 and rbd_rectangle_tilted marks them; the
+ * detector then builds the rotated table after the upright one and scales them as
+ * scaleRectangle does.
+ * @throws RectboostError `bad-model` when no Q ≥ 4 fits (then the integer build would be too coarse).
  */
 export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTemplates, label: string): CDetectorExport {
-  if (cascadeUsesTiltedFeatures(cascade)) {
-    throw new RectboostError('bad-model', `Cascade ${label} uses tilted features (feature set extended), which the C detector does not evaluate yet; export it for the browser runtime, or train with --features basic for C.`);
-  }
   const stages = cascade.stages;
   const classifiers = stages.flatMap((stage) => stage.weakClassifiers);
   const rectangles = classifiers.flatMap((weak) => weak.rectangles);
@@ -76,6 +75,10 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
   table('uint32_t', 'rbd_stage_end', stageEnds.map(String), 12);
   table('uint32_t', 'rbd_classifier_end', classifierEnds.map(String), 12);
   table('uint16_t', 'rbd_rectangle', rectangles.map((r) => `{${r.x}, ${r.y}, ${r.width}, ${r.height}}`), 4, '[4]');
+  const tilted = cascadeUsesTiltedFeatures(cascade);
+  lines.push(`#define RBD_TILTED ${tilted ? 1 : 0}`);
+  if (tilted) table('uint8_t', 'rbd_rectangle_tilted', rectangles.map((r) => (r.tilted === true ? '1' : '0')), 24);
+  const tiltedBytes = tilted ? ' + sizeof rbd_rectangle_tilted' : '';
   lines.push('#ifdef RBD_INTEGER', `#define RBD_VALUE_BITS ${valueBits}`);
   table('int64_t', 'rbd_rectangle_weight_area', rectangles.map((r) => cInteger(r.weight * r.width * r.height * scaleValue)));
   // Each vote is rounded by at most half a unit, so a stage of m votes sums to within m/2 units of
@@ -89,7 +92,7 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
   table('int64_t', 'rbd_below', classifiers.map((w) => cInteger(w.belowOutput * scaleVote)));
   table('int64_t', 'rbd_above', classifiers.map((w) => cInteger(w.aboveOutput * scaleVote)));
   lines.push('#define RBD_TABLE_BYTES (sizeof rbd_stage_end + sizeof rbd_classifier_end + sizeof rbd_rectangle + sizeof rbd_rectangle_weight_area \\');
-  lines.push('  + sizeof rbd_threshold + sizeof rbd_score_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above)');
+  lines.push(`  + sizeof rbd_threshold + sizeof rbd_score_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above${tiltedBytes})`);
   lines.push('#else');
   table('double', 'rbd_rectangle_weight', rectangles.map((r) => cDouble(r.weight)));
   table('double', 'rbd_threshold', stages.map((s) => cDouble(s.threshold)));
@@ -97,7 +100,7 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
   table('double', 'rbd_below', classifiers.map((w) => cDouble(w.belowOutput)));
   table('double', 'rbd_above', classifiers.map((w) => cDouble(w.aboveOutput)));
   lines.push('#define RBD_TABLE_BYTES (sizeof rbd_stage_end + sizeof rbd_classifier_end + sizeof rbd_rectangle + sizeof rbd_rectangle_weight \\');
-  lines.push('  + sizeof rbd_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above)');
+  lines.push(`  + sizeof rbd_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above${tiltedBytes})`);
   lines.push('#endif', '');
   const header = templates.header
     .replaceAll('@SOURCE@', label.replaceAll('*/', '* /'))
@@ -107,7 +110,8 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
     .replaceAll('@CLASSIFIER_COUNT@', String(classifiers.length))
     .replaceAll('@RECTANGLE_COUNT@', String(rectangles.length));
   const counts = { stages: Math.max(1, stages.length), classifiers: Math.max(1, classifiers.length), rectangles: Math.max(1, rectangles.length) };
-  const numbers = 4 * counts.stages + 4 * counts.classifiers + 8 * counts.rectangles + 8 * counts.rectangles + 8 * counts.stages + 3 * 8 * counts.classifiers;
+  const numbers = 4 * counts.stages + 4 * counts.classifiers + 8 * counts.rectangles + 8 * counts.rectangles + 8 * counts.stages + 3 * 8 * counts.classifiers
+    + (tilted ? counts.rectangles : 0);
   return {
     header,
     source: `${lines.join('\n')}\n${templates.core}`,
@@ -131,9 +135,12 @@ export function cWorkBytes(cascade: DetectorCascade, build: 'float' | 'integer',
   const classifiers = Math.max(1, cascade.stages.reduce((n, stage) => n + stage.weakClassifiers.length, 0));
   const entry = build === 'float' ? 8 : 4;
   const entries = (width + 1) * (height + 1);
+  // With tilted features: the rotated table after the upright one, and two rows of ray sums.
+  const tilted = cascadeUsesTiltedFeatures(cascade);
+  const tables = align((tilted ? 2 : 1) * entries * entry) + align(entries * entry) + (tilted ? 2 * align((width + 1) * entry) : 0);
   // rbd_hit: four int32 and an 8-byte score; rbd_detection: four 8-byte box values, an 8-byte score, int32 support (padded to 48).
   const perHit = 24 + 5 * 4 + 48;
-  return 2 * align(entries * entry) + align(4 * 4 * rectangles) + align(8 * 4 * rectangles) + align(4 * classifiers) + hitCapacity * perHit + 64;
+  return tables + align(4 * 4 * rectangles) + align(8 * 4 * rectangles) + align(4 * classifiers) + hitCapacity * perHit + 64;
 }
 
 function integerValueBits(cascade: DetectorCascade, label: string): number {
@@ -141,7 +148,8 @@ function integerValueBits(cascade: DetectorCascade, label: string): number {
   let largestSplit = 1;
   for (const stage of cascade.stages) {
     for (const weak of stage.weakClassifiers) {
-      largestSum = Math.max(largestSum, weak.rectangles.reduce((n, r) => n + Math.abs(r.weight) * r.width * r.height, 0) + weak.rectangles.length);
+      // A tilted rectangle covers 2 · width · height pixels.
+      largestSum = Math.max(largestSum, weak.rectangles.reduce((n, r) => n + Math.abs(r.weight) * r.width * r.height * (r.tilted === true ? 2 : 1), 0) + weak.rectangles.length);
       largestSplit = Math.max(largestSplit, Math.abs(weak.splitValue));
     }
   }

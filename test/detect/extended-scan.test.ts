@@ -2,7 +2,6 @@ import { readFileSync } from 'node:fs';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { describe, expect, it } from 'vitest';
 import type { CascadeModel } from '../../src/cascade/cascade-model.js';
-import { exportCDetector } from '../../src/cascade/c-export.js';
 import { exportRuntimeCascade, parseRuntimeCascade } from '../../src/cascade/runtime-export.js';
 import { cascadeUsesTiltedFeatures, detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
 import { scanImage } from '../../src/detect/scan-image.js';
@@ -103,8 +102,4 @@ describe('extended cascades in the scan kernel', () => {
     expect(() => parseRuntimeCascade(JSON.stringify(bad), 'bad.json')).toThrow(/rectangles\[0\]\[3\]/);
   });
 
-  it('the C export refuses an extended cascade with a message that names the way out (runtime-c has no rotated table yet)', () => {
-    const detector = detectorCascadeFromModel(extendedModel('extended-c', [4, 4]));
-    expect(() => exportCDetector(detector, { header: '', core: '' }, 'extended.json')).toThrow(/tilted features .* C detector does not evaluate yet/);
-  });
 });
