@@ -28,7 +28,7 @@ typedef struct rbd_hit {
 
 /* Work buffer, carved in this order (each part 8-byte aligned). */
 typedef struct rbd_work {
-  rbd_entry *sum;
+  rbd_entry *sum;      /* the upright table; with RBD_TILTED the rotated one follows it */
   rbd_entry *squared;
   int32_t *corner_offset;
   rbd_coefficient *corner_coefficient;
@@ -40,6 +40,7 @@ typedef struct rbd_work {
   int32_t *link;
   int32_t *group;
   rbd_detection *detections;
+  rbd_entry *rays;     /* two rows of up-right ray sums, for the rotated table (RBD_TILTED) */
 } rbd_work;
 
 static size_t rbd_aligned(size_t bytes) { return (bytes + 7u) & ~(size_t)7u; }
@@ -50,7 +51,8 @@ size_t rbd_work_bytes(int32_t width, int32_t height, int32_t hit_capacity) {
   if (width < 1 || height < 1 || hit_capacity < 1) return 0;
   if ((uint64_t)width * (uint64_t)height > RBD_MAX_IMAGE_PIXELS) return 0;
   entries = ((size_t)width + 1u) * ((size_t)height + 1u);
-  return 2u * rbd_aligned(entries * sizeof(rbd_entry))
+  return rbd_aligned((RBD_TILTED ? 2u : 1u) * entries * sizeof(rbd_entry)) + rbd_aligned(entries * sizeof(rbd_entry))
+       + (RBD_TILTED ? 2u * rbd_aligned(((size_t)width + 1u) * sizeof(rbd_entry)) : 0u)
        + rbd_aligned(RBD_CORNER_CAPACITY * sizeof(int32_t))
        + rbd_aligned(RBD_CORNER_CAPACITY * sizeof(rbd_coefficient))
        + rbd_aligned(RBD_CLASSIFIER_CAPACITY * sizeof(int32_t))
@@ -63,11 +65,12 @@ static void *rbd_take(unsigned char **at, size_t bytes) {
   return start;
 }
 
-static void rbd_carve(rbd_work *w, void *memory, size_t entries, int32_t hits) {
+static void rbd_carve(rbd_work *w, void *memory, size_t entries, size_t rays_per_row, int32_t hits) {
   unsigned char *at = (unsigned char *)memory;
   size_t n = (size_t)hits;
-  w->sum = (rbd_entry *)rbd_take(&at, entries * sizeof(rbd_entry));
+  w->sum = (rbd_entry *)rbd_take(&at, (RBD_TILTED ? 2u : 1u) * entries * sizeof(rbd_entry));
   w->squared = (rbd_entry *)rbd_take(&at, entries * sizeof(rbd_entry));
+  w->rays = RBD_TILTED ? (rbd_entry *)rbd_take(&at, 2u * rbd_aligned(rays_per_row * sizeof(rbd_entry))) : NULL;
   w->corner_offset = (int32_t *)rbd_take(&at, RBD_CORNER_CAPACITY * sizeof(int32_t));
   w->corner_coefficient = (rbd_coefficient *)rbd_take(&at, RBD_CORNER_CAPACITY * sizeof(rbd_coefficient));
   w->classifier_corner_end = (int32_t *)rbd_take(&at, RBD_CLASSIFIER_CAPACITY * sizeof(int32_t));
@@ -127,6 +130,28 @@ static void rbd_integrate(const uint8_t *pixels, int32_t width, int32_t height, 
   }
 }
 
+#if RBD_TILTED
+/* The rotated table after the upright one (rectboost's computeRotatedSum): entry (x, y)
+ * sums the pixels (i, j) with j < y and x - (y - j) <= i <= x + (y - j) - 1, built top-down
+ * by R(x, y) = R(x - 1, y - 1) + A(x, y - 1) + A(x - 1, y - 1), A the up-right ray sums,
+ * with R(-1, y - 1) = R(0, y - 2) and A(-1, y - 1) = A(0, y - 2). Exact in both builds
+ * (every entry is at most the image's pixel sum). `rays` holds two rows of width + 1. */
+static void rbd_rotate(const uint8_t *pixels, int32_t width, int32_t height, int32_t row_bytes, rbd_entry *rotated, rbd_entry *rays) {
+  size_t stride = (size_t)width + 1u;
+  rbd_entry *above_rays = rays, *row_rays = rays + stride, *spare;
+  int32_t x, y;
+  for (x = 0; x <= width; x++) { rotated[x] = 0; above_rays[x] = 0; row_rays[x] = 0; }
+  for (y = 1; y <= height; y++) {
+    const uint8_t *row = pixels + (size_t)(y - 1) * (size_t)row_bytes;
+    rbd_entry *here = rotated + (size_t)y * stride, *above = here - stride;
+    for (x = 0; x < width; x++) row_rays[x] = (rbd_entry)row[x] + above_rays[x + 1];
+    here[0] = (y >= 2 ? above[-(ptrdiff_t)stride] : 0) + row_rays[0] + above_rays[0];
+    for (x = 1; x <= width; x++) here[x] = above[x - 1] + row_rays[x] + row_rays[x - 1];
+    spare = above_rays; above_rays = row_rays; row_rays = spare;
+  }
+}
+#endif
+
 /* ---- one scale of the cascade ---- */
 
 #ifdef RBD_INTEGER
@@ -151,10 +176,53 @@ static double rbd_round(double v) {
  * area, the four corners of every rectangle added into one list per
  * classifier (first come, first listed), then sorted by offset with zero
  * coefficients dropped. */
+#if RBD_TILTED
+/* A tilted rectangle at one scale (rectboost's scaleRectangle): each corner mapped in
+ * rotated coordinates u = x + y, v = y - x, rounded to the nearest integer of parity
+ * round(p * scale) mod 2 (p = (x + y) mod 2); sides shortened, the longer first, until it
+ * fits the scaled window, then the top corner moved inside it. Writes top corner x, y and
+ * the sides to out[0..3]. */
 #ifdef RBD_INTEGER
-static void rbd_compile_scale(rbd_work *w, uint64_t scale_q32, size_t stride)
+/* floor(v / 2^33) for any sign (C99 leaves >> of negatives to the compiler). */
+static int64_t rbd_floor_q33(int64_t v) { return v >= 0 ? v >> 33 : -((-v + (((int64_t)1 << 33) - 1)) >> 33); }
+static int32_t rbd_nearest_of_parity(int32_t t, int32_t parity, uint64_t scale_q32) {
+  int64_t scaled = (int64_t)t * (int64_t)scale_q32 - (int64_t)parity * ((int64_t)1 << 32);
+  return parity + 2 * (int32_t)rbd_floor_q33(scaled + ((int64_t)1 << 32));
+}
+static void rbd_scale_tilted(const uint16_t *r, uint64_t scale_q32, int32_t window_width, int32_t window_height, int32_t *out) {
+  int32_t x = r[0], y = r[1];
+  int32_t parity = rbd_round_q32((uint64_t)((x + y) & 1) * scale_q32) & 1;
+  int32_t u0 = rbd_nearest_of_parity(x + y, parity, scale_q32), u1 = rbd_nearest_of_parity(x + y + 2 * r[2], parity, scale_q32);
+  int32_t v0 = rbd_nearest_of_parity(y - x, parity, scale_q32), v1 = rbd_nearest_of_parity(y - x + 2 * r[3], parity, scale_q32);
 #else
-static void rbd_compile_scale(rbd_work *w, double scale, size_t stride)
+static int32_t rbd_nearest_of_parity(int32_t t, int32_t parity, double scale) {
+  return parity + 2 * (int32_t)rbd_round(((double)t * scale - (double)parity) / 2.0);
+}
+static void rbd_scale_tilted(const uint16_t *r, double scale, int32_t window_width, int32_t window_height, int32_t *out) {
+  int32_t x = r[0], y = r[1];
+  int32_t parity = (int32_t)rbd_round((double)((x + y) & 1) * scale) & 1;
+  int32_t u0 = rbd_nearest_of_parity(x + y, parity, scale), u1 = rbd_nearest_of_parity(x + y + 2 * r[2], parity, scale);
+  int32_t v0 = rbd_nearest_of_parity(y - x, parity, scale), v1 = rbd_nearest_of_parity(y - x + 2 * r[3], parity, scale);
+#endif
+  int32_t side_width = (u1 - u0) / 2, side_height = (v1 - v0) / 2;
+  int32_t top_x = (u0 - v0) / 2, top_y = (u0 + v0) / 2;
+  int32_t room = window_width < window_height ? window_width : window_height;
+  while (side_width + side_height > room) {
+    if (side_width >= side_height) side_width--;
+    else side_height--;
+  }
+  if (top_x < side_height) top_x = side_height;
+  if (top_x > window_width - side_width) top_x = window_width - side_width;
+  if (top_y < 0) top_y = 0;
+  if (top_y > window_height - side_width - side_height) top_y = window_height - side_width - side_height;
+  out[0] = top_x; out[1] = top_y; out[2] = side_width; out[3] = side_height;
+}
+#endif
+
+#ifdef RBD_INTEGER
+static void rbd_compile_scale(rbd_work *w, uint64_t scale_q32, size_t stride, size_t rotated_at, int32_t window_width, int32_t window_height)
+#else
+static void rbd_compile_scale(rbd_work *w, double scale, size_t stride, size_t rotated_at, int32_t window_width, int32_t window_height)
 #endif
 {
   int32_t classifier, corners = 0, rectangle = 0;
@@ -165,6 +233,27 @@ static void rbd_compile_scale(rbd_work *w, double scale, size_t stride)
       int32_t left, top, right, bottom, k;
       int32_t offset[4];
       rbd_coefficient weight, sign[4];
+#if RBD_TILTED
+      if (rbd_rectangle_tilted[rectangle]) {
+        int32_t t[4];
+        int32_t at = (int32_t)rotated_at, line = (int32_t)stride;
+#ifdef RBD_INTEGER
+        rbd_scale_tilted(r, scale_q32, window_width, window_height, t);
+        weight = rbd_divide_rounded(rbd_rectangle_weight_area[rectangle], (int64_t)t[2] * (int64_t)t[3]);
+#else
+        rbd_scale_tilted(r, scale, window_width, window_height, t);
+        weight = (rbd_rectangle_weight[rectangle] * (double)r[2] * (double)r[3]) / ((double)t[2] * (double)t[3]);
+#endif
+        /* bottom, left, right, top (tiltedRectangleSum) */
+        offset[0] = at + (t[1] + t[2] + t[3]) * line + t[0] + t[2] - t[3]; sign[0] = weight;
+        offset[1] = at + (t[1] + t[3]) * line + t[0] - t[3];               sign[1] = -weight;
+        offset[2] = at + (t[1] + t[2]) * line + t[0] + t[2];               sign[2] = -weight;
+        offset[3] = at + t[1] * line + t[0];                               sign[3] = weight;
+        goto merge;
+      }
+#else
+      (void)rotated_at; (void)window_width; (void)window_height;
+#endif
 #ifdef RBD_INTEGER
       left = rbd_round_q32((uint64_t)r[0] * scale_q32);
       top = rbd_round_q32((uint64_t)r[1] * scale_q32);
@@ -182,6 +271,9 @@ static void rbd_compile_scale(rbd_work *w, double scale, size_t stride)
       offset[1] = bottom * (int32_t)stride + left;  sign[1] = -weight;
       offset[2] = top * (int32_t)stride + right;    sign[2] = -weight;
       offset[3] = top * (int32_t)stride + left;     sign[3] = weight;
+#if RBD_TILTED
+    merge:
+#endif
       for (k = 0; k < 4; k++) {
         for (i = first; i < corners && w->corner_offset[i] != offset[k]; i++) {}
         if (i == corners) {
@@ -495,8 +587,11 @@ int rbd_detect(const uint8_t *pixels, int32_t width, int32_t height, int32_t row
   if (options->smallest_side < 0 || options->largest_side < 0) return RBD_BAD_ARGUMENT;
   if (rbd_work_bytes(width, height, hit_capacity) == 0) return RBD_BAD_ARGUMENT;
   if (work_bytes < rbd_work_bytes(width, height, hit_capacity)) return RBD_WORK_TOO_SMALL;
-  rbd_carve(&w, work, stride * ((size_t)height + 1u), hit_capacity);
+  rbd_carve(&w, work, stride * ((size_t)height + 1u), stride, hit_capacity);
   rbd_integrate(pixels, width, height, row_bytes, w.sum, w.squared);
+#if RBD_TILTED
+  rbd_rotate(pixels, width, height, row_bytes, w.sum + stride * ((size_t)height + 1u), w.rays);
+#endif
 
   /* Scales s = step^k while the rounded window fits the image (scanScales). */
   for (k = 0;; k++) {
@@ -519,12 +614,12 @@ int rbd_detect(const uint8_t *pixels, int32_t width, int32_t height, int32_t row
     if (count_of_pixels > RBD_MAX_WINDOW_PIXELS) break;
     step = (int32_t)(((uint64_t)options->shift_q16 * scale_q32 + ((uint64_t)1 << 47)) >> 48);
     if (step < 1) step = 1;
-    rbd_compile_scale(&w, scale_q32, stride);
+    rbd_compile_scale(&w, scale_q32, stride, stride * ((size_t)height + 1u), window_width, window_height);
 #else
     step = (int32_t)rbd_round(options->shift * scale);
     if (step < 1) step = 1;
     inverse_count = 1.0 / ((double)window_width * (double)window_height);
-    rbd_compile_scale(&w, scale, stride);
+    rbd_compile_scale(&w, scale, stride, stride * ((size_t)height + 1u), window_width, window_height);
 #endif
     {
       int32_t bottom_right = window_height * (int32_t)stride + window_width, bottom_left = window_height * (int32_t)stride;

@@ -22,7 +22,7 @@ import { loadAnnotations } from '../../dist/data/annotations.js';
 import { loadFashionMnist } from '../../dist/data/fashion-mnist.js';
 import { loadLfwSubset } from '../../dist/data/lfw-subset.js';
 import { listImageFiles } from '../../dist/data/list-images.js';
-import { detectorCascadeFromModel } from '../../dist/detect/detector-cascade.js';
+import { cascadeUsesTiltedFeatures, detectorCascadeFromModel } from '../../dist/detect/detector-cascade.js';
 import { mergeDetections } from '../../dist/detect/merge-detections.js';
 import { scanImage } from '../../dist/detect/scan-image.js';
 import { packWindowSamples } from '../../dist/features/window-samples.js';
@@ -49,6 +49,7 @@ const VARIANTS = [
   { key: 'mirror', name: '+ mirror', extra: () => ({ mirror: true }) },
   { key: 'depth2', name: 'trees of depth 2', extra: () => ({ weakDepth: 2 }) },
   { key: 'depth3', name: 'trees of depth 3', extra: () => ({ weakDepth: 3 }) },
+  { key: 'extended', name: '+ extended features', extra: () => ({ featureSet: 'extended' }) },
 ];
 
 function mosaics(items, labels, objectLabel, side = 28, across = 8) {
@@ -141,11 +142,12 @@ async function demoTask() {
 function measure(task, stages) {
   const model = { window: { width: task.side, height: task.side }, stages };
   const detector = detectorCascadeFromModel(model);
-  const patches = evaluatePatches(detector, packWindowSamples(task.testPositives, task.side, task.side), packWindowSamples(task.testNegatives, task.side, task.side));
+  const tables = { rotated: cascadeUsesTiltedFeatures(detector) };
+  const patches = evaluatePatches(detector, packWindowSamples(task.testPositives, task.side, task.side, undefined, tables), packWindowSamples(task.testNegatives, task.side, task.side, undefined, tables));
   let ap;
   if (task.scenes !== undefined) {
     ap = evaluateDetections(task.scenes.map(({ image, truth }) => {
-      const { hits } = scanImage(detector, computeIntegralImage(image), task.scan);
+      const { hits } = scanImage(detector, computeIntegralImage(image, tables), task.scan);
       return { detections: mergeDetections(hits, task.merge), truth };
     }), 0.5).averagePrecision;
   }
@@ -153,7 +155,7 @@ function measure(task, stages) {
 }
 
 export async function run(flags) {
-  // --tasks=shirt,faces,demo and --variants=baseline,patches,augment,mirror pick a subset (seeded: rows reproduce alone).
+  // --tasks=shirt,faces,demo and --variants=baseline,patches,augment,mirror,extended pick a subset (seeded: rows reproduce alone).
   const only = flags.find((f) => f.startsWith('--tasks='))?.slice('--tasks='.length).split(',');
   const variants = flags.find((f) => f.startsWith('--variants='))?.slice('--variants='.length).split(',');
   const builders = { shirt: fashionShirtTask, faces: facesTask, demo: demoTask };

@@ -146,7 +146,7 @@ export function fillResponseRows(
 export function buildResponseMatrix(features: readonly HaarFeature[], positives: WindowSamples, negatives: WindowSamples): ResponseMatrix {
   checkThat(positives.count >= 1 && negatives.count >= 1, `A response matrix needs at least one positive and one negative; received ${positives.count} and ${negatives.count}.`);
   const samples = packSampleColumns(positives, negatives);
-  const compiled = compileFeatures(features, positives.windowWidth + 1);
+  const compiled = compileFeatures(features, positives.windowWidth + 1, positives.rotatedAt);
   const featureCount = features.length;
   const target = {
     bins: new Uint8Array(featureCount * samples.sampleCount),

@@ -1,6 +1,6 @@
 import { checkThat } from '../check.js';
 import { compileFeatures, type CompiledFeatures } from '../features/compiled-features.js';
-import type { HaarFeature } from '../features/haar-feature.js';
+import { featuresNeedRotatedTable, type HaarFeature } from '../features/haar-feature.js';
 
 /** Default cap on the response table: 4 GiB, also the largest single buffer Node 20 allows. */
 export const DEFAULT_MATRIX_MEMORY_BYTES = 2 ** 32;
@@ -105,11 +105,14 @@ export function placeCompiledFeatures(buffers: StageBuffers, compiled: CompiledF
  * @example stageBuffersForRun(enumerateFeatures(24, 24), 24, 24, 3000, 2 ** 31, true)
  */
 export function stageBuffersForRun(features: readonly HaarFeature[], windowWidth: number, windowHeight: number, sampleCount: number, memoryBytes: number, shared: boolean): StageBuffers {
+  // Tilted features read each sample's rotated table, packed after its upright one.
+  const uprightSize = (windowWidth + 1) * (windowHeight + 1);
+  const rotatedAt = featuresNeedRotatedTable(features) ? uprightSize : undefined;
   return createStageBuffers({
     featureCount: features.length,
-    cornerCount: compileFeatures(features, windowWidth + 1).offsets.length,
+    cornerCount: compileFeatures(features, windowWidth + 1, rotatedAt).offsets.length,
     sampleCount,
-    tableSize: (windowWidth + 1) * (windowHeight + 1),
+    tableSize: rotatedAt === undefined ? uprightSize : 2 * uprightSize,
     memoryBytes: Math.min(memoryBytes, DEFAULT_MATRIX_MEMORY_BYTES),
     shared,
   });

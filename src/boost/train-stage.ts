@@ -150,7 +150,9 @@ export async function trainStage(options: StageTrainingOptions): Promise<StageTr
 
   // --- Response matrix -------------------------------------------------------
   const matrixStart = performance.now();
-  const compiledAll = compileFeatures(stageFeatures, positives.windowWidth + 1);
+  checkThat(negatives.rotatedAt === positives.rotatedAt && validationPositives.rotatedAt === positives.rotatedAt,
+    'Positives, negatives and validation positives must be packed alike (all with the rotated tables or none).');
+  const compiledAll = compileFeatures(stageFeatures, positives.windowWidth + 1, positives.rotatedAt);
   const buffers = options.buffers ?? createStageBuffers({
     featureCount,
     cornerCount: compiledAll.offsets.length,

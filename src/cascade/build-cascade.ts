@@ -3,15 +3,17 @@ import type { BoosterKind } from '../boost/booster.js';
 import { stageBuffersForRun, type StageBuffers } from '../boost/stage-buffers.js';
 import { trainStage } from '../boost/train-stage.js';
 import type { BoostingPool } from '../boost/boosting-pool-contract.js';
-import { checkInteger, checkNumber, checkOpenInterval, checkThat } from '../check.js';
+import { checkInteger, checkNumber, checkOneOf, checkOpenInterval, checkThat } from '../check.js';
 import { RectboostError, isRectboostError } from '../errors.js';
 import { enumerateFeatures } from '../features/enumerate-features.js';
+import { FEATURE_SET_KINDS, FEATURE_SET_NAMES, type FeatureSetName } from '../features/feature-kind.js';
+import { featuresNeedRotatedTable } from '../features/haar-feature.js';
 import { packWindowSamples } from '../features/window-samples.js';
 import { augmentWindows } from '../image/augment-window.js';
 import { mirrorGrayImage, type GrayImage } from '../image/gray-image.js';
 import type { Stage } from './cascade-model.js';
 import { BackgroundWindows, mineHardNegatives, sampleUniformNegatives } from './negative-mining.js';
-import { detectorCascadeFromModel } from '../detect/detector-cascade.js';
+import { cascadeUsesTiltedFeatures, detectorCascadeFromModel } from '../detect/detector-cascade.js';
 import { acceptSamples } from '../detect/window-list.js';
 
 /** Options of cascade training; defaults are those of `rectboost train`. */
@@ -39,6 +41,12 @@ export interface CascadeTrainingOptions {
   readonly validationShare: number;
   readonly seed: number;
   readonly memoryBytes: number;
+  /**
+   * Candidate feature kinds (FEATURE_SET_KINDS): `basic` (default) or `extended`, which
+   * adds the tilted and centre-surround kinds; every sample and background table then
+   * carries the rotated table too.
+   */
+  readonly featureSet?: FeatureSetName;
   /**
    * Windows to be rejected (windowWidth × windowHeight): confusable objects, or the false
    * alarms of an earlier run. Every stage takes those the cascade so far still accepts as
@@ -193,8 +201,10 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
   if (training.length < 2) {
     throw new RectboostError('bad-data', `Training needs at least 2 training positives after holding out validation; it has ${training.length}.`);
   }
-  const features = enumerateFeatures(windowWidth, windowHeight);
-  const backgrounds = new BackgroundWindows(options.backgrounds, windowWidth, windowHeight);
+  const featureSet = checkOneOf('feature set', options.featureSet ?? 'basic', FEATURE_SET_NAMES);
+  const features = enumerateFeatures(windowWidth, windowHeight, FEATURE_SET_KINDS[featureSet]);
+  const tables = { rotated: featuresNeedRotatedTable(features) };
+  const backgrounds = new BackgroundWindows(options.backgrounds, windowWidth, windowHeight, undefined, tables);
   const stages: Stage[] = [...(options.completedStages ?? [])];
   const reports: StageReport[] = stages.map((stage, stageIndex) => reportOfRecordedStage(stage, stageIndex, stages));
   // One response table for the whole run, sized for the largest stage (every training
@@ -278,10 +288,10 @@ export async function trainCascade(options: CascadeTrainingOptions): Promise<Cas
       options.onEvent?.({ phase: 'responses', stageIndex, features: features.length, samples: trainingKept.length + negatives.length });
       const result = await trainStage({
         features,
-        positives: packWindowSamples(trainingKept, windowWidth, windowHeight),
-        negatives: packWindowSamples(negatives, windowWidth, windowHeight),
+        positives: packWindowSamples(trainingKept, windowWidth, windowHeight, undefined, tables),
+        negatives: packWindowSamples(negatives, windowWidth, windowHeight, undefined, tables),
         leadingNegatives: fromPatches.length,
-        validationPositives: packWindowSamples(validationKept, windowWidth, windowHeight),
+        validationPositives: packWindowSamples(validationKept, windowWidth, windowHeight, undefined, tables),
         booster: options.booster,
         ...(options.weakDepth === undefined ? {} : { weakDepth: options.weakDepth }),
         minDetectionRate: options.stageDetectionRate,
@@ -455,7 +465,8 @@ type CascadeSoFar = { stages: readonly Stage[]; window: { width: number; height:
 
 /** The windows the cascade so far accepts (scan kernel; flat windows never, as in detection). */
 function keepAccepted(windows: readonly GrayImage[], cascade: CascadeSoFar, width: number, height: number): GrayImage[] {
-  const accepted = acceptSamples(detectorCascadeFromModel(cascade), packWindowSamples(windows, width, height));
+  const detector = detectorCascadeFromModel(cascade);
+  const accepted = acceptSamples(detector, packWindowSamples(windows, width, height, undefined, { rotated: cascadeUsesTiltedFeatures(detector) }));
   return windows.filter((_, i) => accepted[i] === 1);
 }
 

@@ -1,6 +1,6 @@
 import { RectboostError } from '../errors.js';
 import { nodePlace } from '../detect/compiled-cascade.js';
-import { isDetectorTree, type DetectorCascade, type DetectorStump, type DetectorWeakClassifier } from '../detect/detector-cascade.js';
+import { cascadeUsesTiltedFeatures, isDetectorTree, type DetectorCascade, type DetectorStump, type DetectorWeakClassifier } from '../detect/detector-cascade.js';
 
 /** The texts of runtime-c/ that every export shares: the header with @NAME@ placeholders and the detector code. */
 export interface CDetectorTemplates {
@@ -42,6 +42,9 @@ export const C_INTEGER_MAX_WINDOW_PIXELS = 66051;
  * Decision trees are written as their heap-order split records (rbd_node_place says where
  * each sits in its tree, as compileCascadeAtScale's nodePlace), and the detector follows a
  * window's path through them.
+ * Tilted rectangles (extended set): RBD_TILTED is 1 and rbd_rectangle_tilted marks them; the
+ * detector then builds the rotated table after the upright one and scales them as
+ * scaleRectangle does.
  * @throws RectboostError `bad-model` when no Q ≥ 4 fits (then the integer build would be too coarse).
  */
 export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTemplates, label: string): CDetectorExport {
@@ -78,6 +81,10 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
   table('uint32_t', 'rbd_classifier_end', classifierEnds.map(String), 12);
   table('uint32_t', 'rbd_node_place', classifiers.map((w) => String(w.place)), 12);
   table('uint16_t', 'rbd_rectangle', rectangles.map((r) => `{${r.x}, ${r.y}, ${r.width}, ${r.height}}`), 4, '[4]');
+  const tilted = cascadeUsesTiltedFeatures(cascade);
+  lines.push(`#define RBD_TILTED ${tilted ? 1 : 0}`);
+  if (tilted) table('uint8_t', 'rbd_rectangle_tilted', rectangles.map((r) => (r.tilted === true ? '1' : '0')), 24);
+  const tiltedBytes = tilted ? ' + sizeof rbd_rectangle_tilted' : '';
   lines.push('#ifdef RBD_INTEGER', `#define RBD_VALUE_BITS ${valueBits}`);
   table('int64_t', 'rbd_rectangle_weight_area', rectangles.map((r) => cInteger(r.weight * r.width * r.height * scaleValue)));
   // Each vote is rounded by at most half a unit, so a stage of m votes sums to within m/2 units of
@@ -91,7 +98,7 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
   table('int64_t', 'rbd_below', classifiers.map((w) => cInteger(w.belowOutput * scaleVote)));
   table('int64_t', 'rbd_above', classifiers.map((w) => cInteger(w.aboveOutput * scaleVote)));
   lines.push('#define RBD_TABLE_BYTES (sizeof rbd_stage_end + sizeof rbd_classifier_end + sizeof rbd_node_place + sizeof rbd_rectangle + sizeof rbd_rectangle_weight_area \\');
-  lines.push('  + sizeof rbd_threshold + sizeof rbd_score_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above)');
+  lines.push(`  + sizeof rbd_threshold + sizeof rbd_score_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above${tiltedBytes})`);
   lines.push('#else');
   table('double', 'rbd_rectangle_weight', rectangles.map((r) => cDouble(r.weight)));
   table('double', 'rbd_threshold', stages.map((s) => cDouble(s.threshold)));
@@ -99,7 +106,7 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
   table('double', 'rbd_below', classifiers.map((w) => cDouble(w.belowOutput)));
   table('double', 'rbd_above', classifiers.map((w) => cDouble(w.aboveOutput)));
   lines.push('#define RBD_TABLE_BYTES (sizeof rbd_stage_end + sizeof rbd_classifier_end + sizeof rbd_node_place + sizeof rbd_rectangle + sizeof rbd_rectangle_weight \\');
-  lines.push('  + sizeof rbd_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above)');
+  lines.push(`  + sizeof rbd_threshold + sizeof rbd_split + sizeof rbd_below + sizeof rbd_above${tiltedBytes})`);
   lines.push('#endif', '');
   const header = templates.header
     .replaceAll('@SOURCE@', label.replaceAll('*/', '* /'))
@@ -109,7 +116,8 @@ export function exportCDetector(cascade: DetectorCascade, templates: CDetectorTe
     .replaceAll('@CLASSIFIER_COUNT@', String(classifiers.length))
     .replaceAll('@RECTANGLE_COUNT@', String(rectangles.length));
   const counts = { stages: Math.max(1, stages.length), classifiers: Math.max(1, classifiers.length), rectangles: Math.max(1, rectangles.length) };
-  const numbers = 4 * counts.stages + 4 * counts.classifiers + 4 * counts.classifiers + 8 * counts.rectangles + 8 * counts.rectangles + 8 * counts.stages + 3 * 8 * counts.classifiers;
+  const numbers = 4 * counts.stages + 4 * counts.classifiers + 4 * counts.classifiers + 8 * counts.rectangles + 8 * counts.rectangles + 8 * counts.stages + 3 * 8 * counts.classifiers
+    + (tilted ? counts.rectangles : 0);
   return {
     header,
     source: `${lines.join('\n')}\n${templates.core}`,
@@ -134,9 +142,12 @@ export function cWorkBytes(cascade: DetectorCascade, build: 'float' | 'integer',
   const classifiers = Math.max(1, records.length);
   const entry = build === 'float' ? 8 : 4;
   const entries = (width + 1) * (height + 1);
+  // With tilted features: the rotated table after the upright one, and two rows of ray sums.
+  const tilted = cascadeUsesTiltedFeatures(cascade);
+  const tables = align((tilted ? 2 : 1) * entries * entry) + align(entries * entry) + (tilted ? 2 * align((width + 1) * entry) : 0);
   // rbd_hit: four int32 and an 8-byte score; rbd_detection: four 8-byte box values, an 8-byte score, int32 support (padded to 48).
   const perHit = 24 + 5 * 4 + 48;
-  return 2 * align(entries * entry) + align(4 * 4 * rectangles) + align(8 * 4 * rectangles) + align(4 * classifiers) + hitCapacity * perHit + 64;
+  return tables + align(4 * 4 * rectangles) + align(8 * 4 * rectangles) + align(4 * classifiers) + hitCapacity * perHit + 64;
 }
 
 /** One record of the C tables: a stump, or one split of a tree (its place as nodePlace gives it). */
@@ -169,7 +180,8 @@ function integerValueBits(stages: ReadonlyArray<{ readonly weakClassifiers: read
   let largestSplit = 1;
   for (const stage of stages) {
     for (const weak of stage.weakClassifiers) {
-      largestSum = Math.max(largestSum, weak.rectangles.reduce((n, r) => n + Math.abs(r.weight) * r.width * r.height, 0) + weak.rectangles.length);
+      // A tilted rectangle covers 2 · width · height pixels.
+      largestSum = Math.max(largestSum, weak.rectangles.reduce((n, r) => n + Math.abs(r.weight) * r.width * r.height * (r.tilted === true ? 2 : 1), 0) + weak.rectangles.length);
       largestSplit = Math.max(largestSplit, Math.abs(weak.splitValue));
     }
   }

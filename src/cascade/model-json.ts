@@ -1,7 +1,7 @@
 import { FieldChecks } from '../check.js';
 import { RectboostError } from '../errors.js';
 import { MAX_WINDOW_SIDE } from '../features/enumerate-features.js';
-import { BASIC_FEATURE_KINDS } from '../features/feature-kind.js';
+import { FEATURE_SET_KINDS, FEATURE_SET_NAMES, type FeatureSetName } from '../features/feature-kind.js';
 import { featureFitsWindow, type HaarFeature } from '../features/haar-feature.js';
 import {
   branchDepth,
@@ -193,7 +193,8 @@ export function validateCascadeModel(raw: unknown, label: string): CascadeModel 
   const width = v.integer(windowObject.width, 'window.width', 1, MAX_WINDOW_SIDE);
   const height = v.integer(windowObject.height, 'window.height', 1, MAX_WINDOW_SIDE);
   v.constant(root.normalization, 'normalization', 'window-standard-deviation');
-  v.constant(root.featureSet, 'featureSet', 'basic');
+  // The set names which kinds the stages may use: basic models never hold tilted or centre-surround kinds.
+  const featureSet = v.oneOf(root.featureSet, 'featureSet', FEATURE_SET_NAMES);
   const stagesRaw = v.array(root.stages, 'stages', MODEL_LIMITS.maxStages);
   let totalWeak = 0;
   const stages: Stage[] = stagesRaw.map((stageRaw, s) => {
@@ -205,7 +206,7 @@ export function validateCascadeModel(raw: unknown, label: string): CascadeModel 
     if (totalWeak > MODEL_LIMITS.maxWeakClassifiersTotal) {
       v.fail(`${path}.weakClassifiers`, `brings the total above ${MODEL_LIMITS.maxWeakClassifiersTotal} weak classifiers`);
     }
-    const weakClassifiers = weakRaw.map((w, i) => parseWeak(v, w, `${path}.weakClassifiers[${i}]`, width, height));
+    const weakClassifiers = weakRaw.map((w, i) => parseWeak(v, w, `${path}.weakClassifiers[${i}]`, width, height, featureSet));
     const stage: Stage = { threshold, weakClassifiers };
     if (stageObject.training === undefined) return stage;
     return { ...stage, training: parseStageRecord(v, stageObject.training, `${path}.training`) };
@@ -215,7 +216,7 @@ export function validateCascadeModel(raw: unknown, label: string): CascadeModel 
     version: CASCADE_VERSION,
     window: { width, height },
     normalization: 'window-standard-deviation',
-    featureSet: 'basic',
+    featureSet,
     stages,
   };
   if (root.meanPositive !== undefined) {
@@ -227,10 +228,10 @@ export function validateCascadeModel(raw: unknown, label: string): CascadeModel 
   return model;
 }
 
-function parseWeak(v: FieldChecks, raw: unknown, path: string, width: number, height: number): WeakClassifier {
+function parseWeak(v: FieldChecks, raw: unknown, path: string, width: number, height: number, featureSet: FeatureSetName): WeakClassifier {
   if (typeof raw === 'object' && raw !== null && !Array.isArray(raw) && 'tree' in raw) {
     const tree = v.object(raw, path, ['tree'], []);
-    const root = parseBranch(v, tree.tree, `${path}.tree`, 1, width, height);
+    const root = parseBranch(v, tree.tree, `${path}.tree`, 1, width, height, featureSet);
     if (isTreeLeaf(root)) return v.fail(`${path}.tree`, 'must be a split (feature, splitValue, below, above), not a leaf');
     if (branchDepth(root) === 1) {
       return v.fail(`${path}.tree`, 'is a tree of depth 1; write it as a stump (feature, splitValue, belowOutput, aboveOutput)');
@@ -239,7 +240,7 @@ function parseWeak(v: FieldChecks, raw: unknown, path: string, width: number, he
   }
   const weak = v.object(raw, path, ['feature', 'splitValue', 'belowOutput', 'aboveOutput'], []);
   return {
-    feature: parseFeature(v, weak.feature, `${path}.feature`, width, height),
+    feature: parseFeature(v, weak.feature, `${path}.feature`, width, height, featureSet),
     splitValue: modelNumber(v, weak.splitValue, `${path}.splitValue`),
     belowOutput: modelNumber(v, weak.belowOutput, `${path}.belowOutput`),
     aboveOutput: modelNumber(v, weak.aboveOutput, `${path}.aboveOutput`),
@@ -247,7 +248,7 @@ function parseWeak(v: FieldChecks, raw: unknown, path: string, width: number, he
 }
 
 /** A tree branch at `level` (the root split is level 1): a leaf `{output}` or a split at most MAX_TREE_DEPTH levels deep. */
-function parseBranch(v: FieldChecks, raw: unknown, path: string, level: number, width: number, height: number): TreeBranch {
+function parseBranch(v: FieldChecks, raw: unknown, path: string, level: number, width: number, height: number, featureSet: FeatureSetName): TreeBranch {
   if (typeof raw === 'object' && raw !== null && !Array.isArray(raw) && 'output' in raw) {
     const leaf = v.object(raw, path, ['output'], []);
     return { output: modelNumber(v, leaf.output, `${path}.output`) };
@@ -255,17 +256,17 @@ function parseBranch(v: FieldChecks, raw: unknown, path: string, level: number, 
   if (level > MAX_TREE_DEPTH) return v.fail(path, `must be a leaf {output}: trees are at most ${MAX_TREE_DEPTH} splits deep`);
   const split = v.object(raw, path, ['feature', 'splitValue', 'below', 'above'], []);
   return {
-    feature: parseFeature(v, split.feature, `${path}.feature`, width, height),
+    feature: parseFeature(v, split.feature, `${path}.feature`, width, height, featureSet),
     splitValue: modelNumber(v, split.splitValue, `${path}.splitValue`),
-    below: parseBranch(v, split.below, `${path}.below`, level + 1, width, height),
-    above: parseBranch(v, split.above, `${path}.above`, level + 1, width, height),
+    below: parseBranch(v, split.below, `${path}.below`, level + 1, width, height, featureSet),
+    above: parseBranch(v, split.above, `${path}.above`, level + 1, width, height, featureSet),
   };
 }
 
-function parseFeature(v: FieldChecks, raw: unknown, path: string, width: number, height: number): HaarFeature {
+function parseFeature(v: FieldChecks, raw: unknown, path: string, width: number, height: number, featureSet: FeatureSetName): HaarFeature {
   const featureObject = v.object(raw, path, ['kind', 'x', 'y', 'cellWidth', 'cellHeight'], []);
   const feature: HaarFeature = {
-    kind: v.oneOf(featureObject.kind, `${path}.kind`, BASIC_FEATURE_KINDS),
+    kind: v.oneOf(featureObject.kind, `${path}.kind`, FEATURE_SET_KINDS[featureSet]),
     x: v.integer(featureObject.x, `${path}.x`, 0, MAX_WINDOW_SIDE),
     y: v.integer(featureObject.y, `${path}.y`, 0, MAX_WINDOW_SIDE),
     cellWidth: v.integer(featureObject.cellWidth, `${path}.cellWidth`, 1, MAX_WINDOW_SIDE),

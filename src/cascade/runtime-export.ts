@@ -14,8 +14,11 @@ export const RUNTIME_CASCADE_VERSION = 1;
 /**
  * The runtime-only cascade file (schema/runtime-cascade.schema.json): what a
  * detector needs and nothing else. Every feature is spelled out as weighted
- * rectangles `[x, y, width, height, weight]` in window pixels, so any runtime
- * can evaluate it without knowing rectboost's feature kinds:
+ * rectangles `[x, y, width, height, weight]` in window pixels, or
+ * `[x, y, width, height, weight, 1]` for a 45° tilted rectangle (top corner x, y;
+ * width steps down-right, height steps down-left; summed on the rotated table,
+ * see tiltedRectangleSum), so any runtime can evaluate it without knowing
+ * rectboost's feature kinds:
  *
  *   value = Σ weight · (pixel sum over the rectangle) / σ(window)
  *   vote  = value < split ? below : above            (a stump)
@@ -23,8 +26,10 @@ export const RUNTIME_CASCADE_VERSION = 1;
  *   a window passes a stage when Σ votes ≥ threshold, and is detected when it passes all stages.
  *
  * σ is the population standard deviation of the window's pixels; windows with
- * variance below 1e-4 are rejected. At scale s, each rectangle edge is scaled
- * and rounded (Math.round) and its weight multiplied by (w·h)/(w_s·h_s).
+ * variance below 1e-4 are rejected. At scale s, each rectangle is scaled by
+ * scaleRectangle (upright: each edge scaled and rounded with Math.round; tilted:
+ * corners rounded in rotated coordinates, then kept inside the window) and its
+ * weight multiplied by (w·h)/(w_s·h_s).
  */
 export interface RuntimeCascadeFile {
   readonly format: typeof RUNTIME_CASCADE_FORMAT;
@@ -37,8 +42,8 @@ export interface RuntimeCascadeFile {
   }>;
 }
 
-/** One rectangle of a runtime file: `[x, y, width, height, weight]`. */
-export type RuntimeRectangle = readonly [number, number, number, number, number];
+/** One rectangle of a runtime file: `[x, y, width, height, weight]`, or `[x, y, width, height, weight, 1]` when tilted. */
+export type RuntimeRectangle = readonly [number, number, number, number, number] | readonly [number, number, number, number, number, 1];
 
 /** A decision stump of a runtime file. */
 export interface RuntimeStump {
@@ -91,14 +96,14 @@ export function runtimeFileFromDetector(cascade: DetectorCascade): RuntimeCascad
 }
 
 function runtimeRectangle(r: WeightedRectangle): RuntimeRectangle {
-  return [r.x, r.y, r.width, r.height, r.weight];
+  return r.tilted === true ? [r.x, r.y, r.width, r.height, r.weight, 1] : [r.x, r.y, r.width, r.height, r.weight];
 }
 
 /**
  * Parses and validates a runtime cascade file (JSON text) into a DetectorCascade.
  * Checks every field before use: known format and version, integer window
- * sides in 1..4096, finite numbers, integer rectangles of positive size inside
- * the window, and the RUNTIME_LIMITS counts.
+ * sides in 1..4096, finite numbers, integer rectangles (upright or tilted) of
+ * positive size inside the window, and the RUNTIME_LIMITS counts.
  * @param label names the source (a file path) in error messages.
  * @throws RectboostError `bad-model` naming the label and the field.
  */
@@ -126,7 +131,17 @@ export function runtimeCascadeFromValue(raw: unknown, label: string): DetectorCa
         if (rectangleValues.length === 0 && !allowEmpty) v.expected(field, 'a non-empty array', rectangleValues);
         return rectangleValues.map((item, r) => {
           const at = `${field}[${r}]`;
-          if (!Array.isArray(item) || item.length !== 5) return v.expected(at, '[x, y, width, height, weight]', item);
+          if (!Array.isArray(item) || (item.length !== 5 && item.length !== 6)) return v.expected(at, '[x, y, width, height, weight] or [x, y, width, height, weight, 1] (tilted)', item);
+          if (item.length === 6) {
+            v.constant(item[5], `${at}[5] (tilted)`, 1);
+            // A tilted rectangle's footprint is x − height .. x + width across, y .. y + width + height down.
+            const x = v.integer(item[0], `${at}[0] (x)`, 1, windowWidth - 1);
+            const y = v.integer(item[1], `${at}[1] (y)`, 0, windowHeight - 2);
+            const width = v.integer(item[2], `${at}[2] (width, inside the window)`, 1, Math.min(windowWidth - x, windowHeight - y - 1));
+            const height = v.integer(item[3], `${at}[3] (height, inside the window)`, 1, Math.min(x, windowHeight - y - width));
+            const weight = v.finite(item[4], `${at}[4] (weight)`);
+            return { x, y, width, height, weight, tilted: true };
+          }
           const x = v.integer(item[0], `${at}[0] (x)`, 0, windowWidth - 1);
           const y = v.integer(item[1], `${at}[1] (y)`, 0, windowHeight - 1);
           const width = v.integer(item[2], `${at}[2] (width, inside the window)`, 1, windowWidth - x);

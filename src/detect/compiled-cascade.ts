@@ -1,13 +1,18 @@
+import { scaleRectangle } from '../features/haar-feature.js';
+import { addRectangleCorners, sortedCorners } from '../features/rectangle-corners.js';
 import { isDetectorTree, type DetectorCascade, type DetectorStump } from './detector-cascade.js';
 import type { ScaledCascade } from './scan-kernel.js';
 
 /**
  * The one compile step of a cascade: its weak classifiers' rectangles scaled by
- * `scale`, each edge rounded once (as scaledFeatureCells does, so neighbouring cells
- * stay contiguous), weights rebalanced by base area / scaled area (features stay
+ * `scale` (scaleRectangle: each upright edge rounded once, tilted corners rounded in
+ * rotated coordinates, weights rebalanced by base area / scaled area so features stay
  * zero-mean and in base units), and the four corners of every rectangle merged into
  * corner reads over an integral table of row stride `stride`, in ascending offset
- * order; `shift` (base pixels) gives the window step max(1, round(shift · scale)).
+ * order (addRectangleCorners); tilted rectangles read the rotated table at the constant
+ * distance `rotatedAt` (IntegralImage.rotatedAt, WindowSamples.rotatedAt), so the scan
+ * kernel evaluates them with no change. `shift` (base pixels) gives the window step
+ * max(1, round(shift · scale)).
  * The result is the record layout the scan kernel reads (KernelImage.setScale): one node
  * record per stump, and 2^d − 1 per tree of depth d (its DetectorTree splits in heap order;
  * the bottom level's records carry the leaf outputs as their below/above outputs).
@@ -17,9 +22,12 @@ import type { ScaledCascade } from './scan-kernel.js';
  * background tables. At scale 1 a basic feature compiles to the same corners and
  * integer coefficients as compileFeatures, so training's responses and the
  * kernel's values are the same integers.
- * @example compileCascadeAtScale(detectorCascadeFromModel(model), 1.25, integral.stride, 1)
+ * @throws RectboostError `invalid-option` when the cascade has tilted rectangles and `rotatedAt` is undefined.
+ * @example compileCascadeAtScale(detectorCascadeFromModel(model), 1.25, integral.stride, 1, integral.rotatedAt)
  */
-export function compileCascadeAtScale(cascade: DetectorCascade, scale: number, stride: number, shift: number): ScaledCascade {
+export function compileCascadeAtScale(cascade: DetectorCascade, scale: number, stride: number, shift: number, rotatedAt?: number): ScaledCascade {
+  const scaledWidth = Math.round(cascade.windowWidth * scale);
+  const scaledHeight = Math.round(cascade.windowHeight * scale);
   const stageEnds = new Int32Array(cascade.stages.length);
   const thresholds = new Float64Array(cascade.stages.length);
   const weakEnds: number[] = [];
@@ -35,21 +43,9 @@ export function compileCascadeAtScale(cascade: DetectorCascade, scale: number, s
     // Merge the four corners of every rectangle: shared corners are read once.
     const corners = new Map<number, number>();
     for (const rectangle of rectangles) {
-      // Each edge is scaled and rounded once, as scaledFeatureCells does, so
-      // neighbouring cells stay contiguous; the weight is rebalanced by
-      // baseArea / scaledArea to keep the feature zero-mean and in base units.
-      const left = Math.round(rectangle.x * scale);
-      const top = Math.round(rectangle.y * scale);
-      const right = Math.round((rectangle.x + rectangle.width) * scale);
-      const bottom = Math.round((rectangle.y + rectangle.height) * scale);
-      const weight = (rectangle.weight * rectangle.width * rectangle.height) / ((right - left) * (bottom - top));
-      addCorner(corners, bottom * stride + right, weight);
-      addCorner(corners, bottom * stride + left, -weight);
-      addCorner(corners, top * stride + right, -weight);
-      addCorner(corners, top * stride + left, weight);
+      addRectangleCorners(corners, scaleRectangle(rectangle, scale, scaledWidth, scaledHeight), stride, rotatedAt);
     }
-    for (const [offset, coefficient] of [...corners.entries()].sort((a, b) => a[0] - b[0])) {
-      if (coefficient === 0) continue;
+    for (const [offset, coefficient] of sortedCorners(corners)) {
       offsets.push(offset);
       coefficients.push(coefficient);
     }
@@ -77,8 +73,8 @@ export function compileCascadeAtScale(cascade: DetectorCascade, scale: number, s
     thresholds[stageIndex] = stage.threshold;
   });
   return {
-    windowWidth: Math.round(cascade.windowWidth * scale),
-    windowHeight: Math.round(cascade.windowHeight * scale),
+    windowWidth: scaledWidth,
+    windowHeight: scaledHeight,
     step: Math.max(1, Math.round(shift * scale)),
     stageEnds,
     thresholds,
@@ -90,10 +86,6 @@ export function compileCascadeAtScale(cascade: DetectorCascade, scale: number, s
     coefficients: Float64Array.from(coefficients),
     nodePlaces: Int32Array.from(nodePlaces),
   };
-}
-
-function addCorner(corners: Map<number, number>, offset: number, weight: number): void {
-  corners.set(offset, (corners.get(offset) ?? 0) + weight);
 }
 
 /**

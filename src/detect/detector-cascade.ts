@@ -114,3 +114,12 @@ export function detectorWeakClassifier(weak: WeakClassifier): DetectorWeakClassi
   place(weak.tree, 0);
   return { splits, leaves };
 }
+
+/**
+ * True when some weak classifier has a tilted rectangle: the cascade then needs the
+ * rotated table (computeIntegralImage(image, { rotated: true })), and basic cascades
+ * keep the upright tables alone.
+ */
+export function cascadeUsesTiltedFeatures(cascade: Pick<DetectorCascade, 'stages'>): boolean {
+  return cascade.stages.some((stage) => stage.weakClassifiers.some((weak) => (isDetectorTree(weak) ? weak.splits.flatMap((split) => split.rectangles) : weak.rectangles).some((rectangle) => rectangle.tilted === true)));
+}

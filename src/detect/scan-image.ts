@@ -175,7 +175,7 @@ export function scanImage(cascade: DetectorCascade, integral: IntegralImage, opt
     scales: 0,
   };
   const hits = new HitCollector();
-  const scaled = scanScales(cascade, integral.width, integral.height, resolved).map((scale) => compileCascadeAtScale(cascade, scale, integral.stride, resolved.shift));
+  const scaled = scanScales(cascade, integral.width, integral.height, resolved).map((scale) => compileCascadeAtScale(cascade, scale, integral.stride, resolved.shift, integral.rotatedAt));
   if (scaled.length === 0) return { hits: hits.toRawHits(), statistics };
   const capacity = {
     stages: cascade.stages.length,

@@ -148,7 +148,9 @@ export class KernelImage {
     this.sumAt = take(8 * entries);
     // Four adjacent windows at the end of the last row read up to three entries
     // past the table (their lanes are dropped): the padding keeps that in memory.
-    const squaredAt = take(8 * entries + TABLE_PADDING);
+    // (with the rotated table in `sum`, the squared table is only the upright size)
+    const squaredEntries = integral.rotatedAt === undefined ? entries : integral.squaredSum.length;
+    const squaredAt = take(8 * squaredEntries + TABLE_PADDING);
     const needed = at;
     const pages = Math.ceil(needed / PAGE_BYTES);
     if (pages > MAX_PAGES) {

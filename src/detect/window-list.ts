@@ -31,7 +31,7 @@ export class WindowListEvaluator {
    * `listCapacity` windows.
    */
   constructor(cascade: DetectorCascade, table: IntegralImage, listCapacity: number) {
-    const compiled = compileCascadeAtScale(cascade, 1, table.stride, 1);
+    const compiled = compileCascadeAtScale(cascade, 1, table.stride, 1, table.rotatedAt);
     this.stageCount = cascade.stages.length;
     this.table = table;
     this.windowWidth = cascade.windowWidth;
@@ -94,15 +94,18 @@ export class WindowListEvaluator {
   }
 }
 
-/** WindowSamples' tables as one table the kernel can read: sample s's window starts at entry s · tableSize. */
+/** WindowSamples' tables as one table the kernel can read: sample s's window starts at entry s · tableSize (its rotated table, if packed, at rotatedAt after that). */
 export function sampleTable(samples: WindowSamples): IntegralImage {
-  return {
+  const stride = samples.windowWidth + 1;
+  const table = {
     width: samples.windowWidth,
-    height: Math.max(1, samples.count * (samples.windowHeight + 1)) - 1,
-    stride: samples.windowWidth + 1,
+    height: Math.max(1, (samples.count * samples.tableSize) / stride) - 1,
+    stride,
     sum: samples.tables.subarray(0, samples.count * samples.tableSize),
     squaredSum: new Float64Array(0),
   };
+  // Each sample's rotated table sits at the same distance from its upright one.
+  return samples.rotatedAt === undefined ? table : { ...table, rotatedAt: samples.rotatedAt };
 }
 
 /** The samples that are not flat: their indices, table entries and 1/σ. */

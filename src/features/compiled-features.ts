@@ -1,12 +1,13 @@
-import { CELL_LAYOUTS } from './feature-kind.js';
-import type { HaarFeature } from './haar-feature.js';
+import { featureCells, type HaarFeature } from './haar-feature.js';
+import { addRectangleCorners, sortedCorners } from './rectangle-corners.js';
 
 /**
  * Features at scale 1 compiled to corner lists over an integral table of a
  * fixed stride, for the hot loop of training. A grid of c × r cells touches only
  * (c+1)(r+1) distinct table corners, and merging the four corners of each cell
  * leaves 6 reads for a two-cell feature, 8 for three cells and 9 for four,
- * instead of 4 per cell.
+ * instead of 4 per cell (tilted grids alike, on the rotated table); centre-surround
+ * reads 8 (two blocks).
  *
  * Feature f reads corners `starts[f] .. starts[f+1]-1`:
  * value = Σ coefficients[k] · table[base + offsets[k]].
@@ -19,35 +20,23 @@ export interface CompiledFeatures {
   readonly coefficients: Float64Array;
 }
 
-/** Compiles features for integral tables with `stride = windowWidth + 1`. */
-export function compileFeatures(features: readonly HaarFeature[], stride: number): CompiledFeatures {
+/**
+ * Compiles features for integral tables with `stride = windowWidth + 1` (sample
+ * tables, packWindowSamples); tilted kinds read the rotated table at `rotatedAt`
+ * entries from the upright one (WindowSamples.rotatedAt).
+ * @throws RectboostError `invalid-option` for a tilted feature without `rotatedAt`.
+ */
+export function compileFeatures(features: readonly HaarFeature[], stride: number, rotatedAt?: number): CompiledFeatures {
   const starts = new Int32Array(features.length + 1);
   const offsets: number[] = [];
   const coefficients: number[] = [];
   for (let f = 0; f < features.length; f++) {
-    const feature = features[f]!;
-    const { columns, rows, weights } = CELL_LAYOUTS[feature.kind];
-    const corner = new Float64Array((columns + 1) * (rows + 1));
-    for (let row = 0; row < rows; row++) {
-      for (let column = 0; column < columns; column++) {
-        const weight = weights[row * columns + column]!;
-        // Four-corner rectangle sum (Crow 1984): +S(x1,y1) − S(x0,y1) − S(x1,y0) + S(x0,y0).
-        corner[(row + 1) * (columns + 1) + column + 1]! += weight;
-        corner[(row + 1) * (columns + 1) + column]! -= weight;
-        corner[row * (columns + 1) + column + 1]! -= weight;
-        corner[row * (columns + 1) + column]! += weight;
-      }
-    }
+    const corners = new Map<number, number>();
+    for (const cell of featureCells(features[f]!)) addRectangleCorners(corners, cell, stride, rotatedAt);
     starts[f] = offsets.length;
-    for (let row = 0; row <= rows; row++) {
-      for (let column = 0; column <= columns; column++) {
-        const coefficient = corner[row * (columns + 1) + column]!;
-        if (coefficient === 0) continue;
-        const x = feature.x + column * feature.cellWidth;
-        const y = feature.y + row * feature.cellHeight;
-        offsets.push(y * stride + x);
-        coefficients.push(coefficient);
-      }
+    for (const [offset, coefficient] of sortedCorners(corners)) {
+      offsets.push(offset);
+      coefficients.push(coefficient);
     }
   }
   starts[features.length] = offsets.length;

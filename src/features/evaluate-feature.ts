@@ -1,18 +1,28 @@
-import { rectangleSum, type IntegralImage } from '../image/integral-image.js';
+import { RectboostError } from '../errors.js';
+import { rectangleSum, tiltedRectangleSum, type IntegralImage } from '../image/integral-image.js';
 import { windowInverseDeviation } from '../image/window-statistics.js';
 import { scaledFeatureCells, type HaarFeature } from './haar-feature.js';
 
 /**
  * Raw value of a feature on a window whose top-left corner is (windowX, windowY)
  * at detector scale `scale` ≥ 1: Σ weight · cell sum over the scaled cells
- * (see scaledFeatureCells for rounding and weight rebalancing). At scale 1 this
- * is the plain Viola–Jones rectangle feature. The caller guarantees the scaled
- * window lies inside the image.
+ * (see scaleRectangle for rounding and weight rebalancing; the base window size
+ * windowWidth × windowHeight matters only for tilted cells at its edge). At scale 1
+ * this is the plain rectangle feature. The caller guarantees the scaled window lies
+ * inside the image.
+ * @throws RectboostError `invalid-option` for a tilted feature on tables without the rotated part.
  */
-export function evaluateFeature(integral: IntegralImage, feature: HaarFeature, windowX: number, windowY: number, scale = 1): number {
+export function evaluateFeature(integral: IntegralImage, feature: HaarFeature, windowX: number, windowY: number, scale = 1, windowWidth = Infinity, windowHeight = Infinity): number {
   let value = 0;
-  for (const cell of scaledFeatureCells(feature, scale)) {
-    value += cell.weight * rectangleSum(integral.sum, integral.stride, windowX + cell.x, windowY + cell.y, cell.width, cell.height);
+  for (const cell of scaledFeatureCells(feature, scale, windowWidth, windowHeight)) {
+    const x = windowX + cell.x;
+    const y = windowY + cell.y;
+    if (cell.tilted !== true) {
+      value += cell.weight * rectangleSum(integral.sum, integral.stride, x, y, cell.width, cell.height);
+      continue;
+    }
+    if (integral.rotatedAt === undefined) throw new RectboostError('invalid-option', `A ${feature.kind} feature needs the rotated table; build it with computeIntegralImage(image, { rotated: true }).`);
+    value += cell.weight * tiltedRectangleSum(integral.sum, integral.rotatedAt, integral.stride, x, y, cell.width, cell.height);
   }
   return value;
 }
@@ -36,5 +46,5 @@ export function evaluateNormalizedFeature(
     integral, windowX, windowY, Math.round(windowWidth * scale), Math.round(windowHeight * scale),
   );
   if (inverseDeviation === 0) return 0;
-  return evaluateFeature(integral, feature, windowX, windowY, scale) * inverseDeviation;
+  return evaluateFeature(integral, feature, windowX, windowY, scale, windowWidth, windowHeight) * inverseDeviation;
 }

@@ -11,7 +11,8 @@ export const NEGATIVE_CELL_COLOUR = [40, 120, 255] as const;
  * A sheet of tiles, one row per stage and one tile per weak classifier: each
  * tile is the backdrop window (the model's mean positive, or mid gray) enlarged
  * `zoom` times with the feature's cells (a tree's root split's) tinted half-way toward
- * POSITIVE_CELL_COLOUR (weight > 0) or NEGATIVE_CELL_COLOUR (weight < 0).
+ * POSITIVE_CELL_COLOUR (weight > 0) or NEGATIVE_CELL_COLOUR (weight < 0);
+ * tilted cells are drawn as the pixels they sum (a 45° staircase).
  * Tiles are separated by a 2-pixel dark gutter. Pure; returns RGB pixels.
  * @param backdrop windowWidth·windowHeight gray levels 0..255, row-major.
  */
@@ -34,9 +35,22 @@ export function drawFeatureSheet(
       const left = gutter + c * (tileWidth + gutter);
       const top = gutter + r * (tileHeight + gutter);
       const tint = new Int8Array(windowWidth * windowHeight);
+      // Later blocks paint over earlier ones (centre-surround: the centre over its ring).
       for (const cell of featureCells(weakClassifierSplits(weak)[0]!.feature)) {
-        for (let y = cell.y; y < cell.y + cell.height; y++) {
-          for (let x = cell.x; x < cell.x + cell.width; x++) tint[y * windowWidth + x] = cell.weight > 0 ? 1 : -1;
+        const mark = cell.weight > 0 ? 1 : -1;
+        if (cell.tilted !== true) {
+          for (let y = cell.y; y < cell.y + cell.height; y++) {
+            for (let x = cell.x; x < cell.x + cell.width; x++) tint[y * windowWidth + x] = mark;
+          }
+          continue;
+        }
+        // A tilted cell's pixels, by their rotated coordinates (tiltedRectangleSum), within its footprint.
+        for (let y = cell.y; y < cell.y + cell.width + cell.height; y++) {
+          for (let x = cell.x - cell.height; x < cell.x + cell.width; x++) {
+            const u = x + y + 1 - (cell.x + cell.y);
+            const v = y - x - (cell.y - cell.x);
+            if (u > 0 && u <= 2 * cell.width && v > 0 && v <= 2 * cell.height) tint[y * windowWidth + x] = mark;
+          }
         }
       }
       for (let y = 0; y < tileHeight; y++) {

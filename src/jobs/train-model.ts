@@ -5,6 +5,8 @@ import { checkInteger } from '../check.js';
 import { loadBackgroundImages } from '../data/backgrounds.js';
 import { loadPositiveWindows } from '../data/positives.js';
 import { RectboostError, isRectboostError } from '../errors.js';
+import { checkOneOf } from '../check.js';
+import { FEATURE_SET_NAMES } from '../features/feature-kind.js';
 import { readCheckpoint, removeCheckpoint, writeCheckpoint, type TrainingFingerprint } from '../io/checkpoint.js';
 import { saveCascadeModel } from '../io/model-file.js';
 import { createBoostingPool } from '../parallel/boosting-pool.js';
@@ -16,7 +18,7 @@ export const TOOL_NAME = 'rectboost 0.1.0';
 type CascadeTargets = Pick<
   CascadeTrainingOptions,
   | 'windowWidth' | 'windowHeight' | 'stageDetectionRate' | 'stageFalsePositiveRate' | 'targetFalsePositiveRate' | 'maxStages'
-  | 'maxWeakClassifiers' | 'negativesPerStage' | 'booster' | 'mirror' | 'validationShare' | 'seed' | 'memoryBytes'
+  | 'maxWeakClassifiers' | 'negativesPerStage' | 'booster' | 'mirror' | 'validationShare' | 'seed' | 'memoryBytes' | 'featureSet'
 >;
 
 /**
@@ -169,6 +171,7 @@ export async function trainModel(given: TrainModelOptions): Promise<TrainedModel
   emit({ phase: 'data', positives: positiveWindows.length, backgroundImages: backgrounds.images.length, negativePatches: patches?.windows.length ?? 0, workers });
 
   // 2. Provenance and the fingerprint a checkpoint must match.
+  const featureSet = checkOneOf('feature set', options.featureSet ?? 'basic', FEATURE_SET_NAMES);
   const recorded = {
     window: `${window.width}x${window.height}`,
     stageDetection: options.stageDetectionRate,
@@ -178,7 +181,7 @@ export async function trainModel(given: TrainModelOptions): Promise<TrainedModel
     maxWeak: options.maxWeakClassifiers,
     negatives: options.negativesPerStage,
     booster: options.booster,
-    features: 'basic',
+    features: featureSet,
     mirror: options.mirror,
     validation: options.validationShare,
     memory: options.memoryBytes,
@@ -212,6 +215,7 @@ export async function trainModel(given: TrainModelOptions): Promise<TrainedModel
   }
   const buildModel = (stages: readonly Stage[], stopReason: string, meanPositive?: readonly number[]): CascadeModel =>
     newCascadeModel(window, stages, {
+      featureSet,
       ...(meanPositive === undefined ? {} : { meanPositive }),
       training: {
         tool: options.tool ?? TOOL_NAME,
@@ -252,6 +256,7 @@ export async function trainModel(given: TrainModelOptions): Promise<TrainedModel
       validationShare: options.validationShare,
       seed: options.seed,
       memoryBytes: options.memoryBytes,
+      featureSet,
       ...(patches === undefined ? {} : { negativePatches: patches.windows, negativePatchShare: patchShare }),
       augmentCopies,
       weakDepth,

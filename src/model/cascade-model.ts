@@ -184,20 +184,21 @@ export interface CascadeModel {
 
 /**
  * A model of the current format and version around trained stages: the one
- * place that fills in the fixed fields (format, version, normalization, feature set).
+ * place that fills in the fixed fields (format, version, normalization) and the feature
+ * set (default `basic`).
  * @example newCascadeModel({ width: 24, height: 24 }, stages, { meanPositive })
  */
 export function newCascadeModel(
   window: { readonly width: number; readonly height: number },
   stages: readonly Stage[],
-  extras: { readonly meanPositive?: readonly number[]; readonly training?: TrainingProvenance } = {},
+  extras: { readonly featureSet?: FeatureSetName; readonly meanPositive?: readonly number[]; readonly training?: TrainingProvenance } = {},
 ): CascadeModel {
   return {
     format: CASCADE_FORMAT,
     version: CASCADE_VERSION,
     window: { width: window.width, height: window.height },
     normalization: 'window-standard-deviation',
-    featureSet: 'basic',
+    featureSet: extras.featureSet ?? 'basic',
     stages,
     ...(extras.meanPositive === undefined ? {} : { meanPositive: extras.meanPositive }),
     ...(extras.training === undefined ? {} : { training: extras.training }),

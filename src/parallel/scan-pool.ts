@@ -3,7 +3,7 @@ import { availableParallelism } from 'node:os';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { checkInteger } from '../check.js';
-import type { DetectorCascade } from '../detect/detector-cascade.js';
+import { cascadeUsesTiltedFeatures, type DetectorCascade } from '../detect/detector-cascade.js';
 import { scanImage, resolveScanOptions, type ScanOptions, type ScanResult } from '../detect/scan-image.js';
 import { RectboostError, type RectboostErrorCode } from '../errors.js';
 import type { GrayImage } from '../image/gray-image.js';
@@ -35,7 +35,7 @@ export function createScanPool(cascade: DetectorCascade, workers = availablePara
     return {
       scan: async (image, options = {}) => {
         const start = performance.now();
-        const result = scanImage(cascade, computeIntegralImage(image), options);
+        const result = scanImage(cascade, computeIntegralImage(image, { rotated: cascadeUsesTiltedFeatures(cascade) }), options);
         return { ...result, milliseconds: performance.now() - start };
       },
       close: async () => {},

@@ -1,7 +1,7 @@
 // Worker side of the scan pool: holds one DetectorCascade (from workerData) and
 // scans the images it is sent. Loaded from dist/ as plain JS (Node 20).
 import { parentPort, workerData } from 'node:worker_threads';
-import type { DetectorCascade } from '../detect/detector-cascade.js';
+import { cascadeUsesTiltedFeatures, type DetectorCascade } from '../detect/detector-cascade.js';
 import { scanImage, type ScanOptions } from '../detect/scan-image.js';
 import { computeIntegralImage } from '../image/integral-image.js';
 
@@ -14,11 +14,12 @@ interface ScanRequest {
 }
 
 const cascade = (workerData as { cascade: DetectorCascade }).cascade;
+const rotated = cascadeUsesTiltedFeatures(cascade);
 
 parentPort!.on('message', (request: ScanRequest) => {
   try {
     const start = performance.now();
-    const integral = computeIntegralImage({ width: request.width, height: request.height, data: request.pixels });
+    const integral = computeIntegralImage({ width: request.width, height: request.height, data: request.pixels }, { rotated });
     const { hits, statistics } = scanImage(cascade, integral, request.options);
     const milliseconds = performance.now() - start;
     const transfer = [hits.x.buffer, hits.y.buffer, hits.width.buffer, hits.height.buffer, hits.score.buffer] as ArrayBuffer[];

@@ -1,4 +1,4 @@
-import type { DetectorCascade } from '../detect/detector-cascade.js';
+import { cascadeUsesTiltedFeatures, type DetectorCascade } from '../detect/detector-cascade.js';
 import { resolveScanOptions, scanImage, scanScales, type ScanOptions } from '../detect/scan-image.js';
 import { cropGrayImage, type GrayImage } from '../image/gray-image.js';
 import { computeIntegralImage } from '../image/integral-image.js';
@@ -50,7 +50,7 @@ export function windowDepthNearBox(cascade: DetectorCascade, image: GrayImage, b
   const x = snap(box[0] + box[2] / 2, best.width, image.width);
   const y = snap(box[1] + box[3] / 2, best.height, image.height);
   const crop = cropGrayImage(image, x, y, best.width, best.height);
-  const { statistics } = scanImage(cascade, computeIntegralImage(crop), { ...resolved, smallestSide: Math.min(best.width, best.height) });
+  const { statistics } = scanImage(cascade, computeIntegralImage(crop, { rotated: cascadeUsesTiltedFeatures(cascade) }), { ...resolved, smallestSide: Math.min(best.width, best.height) });
   let stagesPassed = 0;
   if (statistics.accepted > 0) stagesPassed = cascade.stages.length;
   else statistics.rejectedAtStage.forEach((count, k) => (stagesPassed = count > 0 ? Math.max(stagesPassed, k) : stagesPassed));

@@ -15,7 +15,7 @@
  */
 import { RectboostError } from '../errors.js';
 import { runtimeCascadeFromValue } from '../cascade/runtime-export.js';
-import type { DetectorCascade } from '../detect/detector-cascade.js';
+import { cascadeUsesTiltedFeatures, type DetectorCascade } from '../detect/detector-cascade.js';
 import { mergeDetections, type Detection, type MergeOptions } from '../detect/merge-detections.js';
 import { scanImage, type ScanOptions, type ScanStatistics } from '../detect/scan-image.js';
 import { SCAN_KERNEL_BASE64 } from '../detect/scan-kernel-binary.js';
@@ -114,7 +114,7 @@ export function detect(cascade: DetectorCascade, image: GrayImage | RgbaPixels, 
   const gray: GrayImage = image.data.length === image.width * image.height ? { width: image.width, height: image.height, data: image.data as Uint8Array } : grayFromRgba(image);
   const requested = options.engine ?? 'auto';
   const engine: ScanEngine = requested === 'auto' ? (scanKernelAvailable() ? 'kernel' : 'plain') : requested;
-  const integral = computeIntegralImage(gray);
+  const integral = computeIntegralImage(gray, { rotated: cascadeUsesTiltedFeatures(cascade) });
   const scanned = engine === 'kernel' ? scanImage(cascade, integral, options.scan ?? {}) : scanImagePlain(cascade, integral, options.scan ?? {});
   return {
     width: gray.width,

@@ -38,7 +38,7 @@ export function scanImagePlain(cascade: DetectorCascade, integral: IntegralImage
   const found = { x: [] as number[], y: [] as number[], width: [] as number[], height: [] as number[], score: [] as number[] };
   const { sum, squaredSum: squared, stride } = integral;
   for (const scale of scanScales(cascade, integral.width, integral.height, resolved)) {
-    const c = compileCascadeAtScale(cascade, scale, stride, resolved.shift);
+    const c = compileCascadeAtScale(cascade, scale, stride, resolved.shift, integral.rotatedAt);
     const { windowWidth, windowHeight, step, stageEnds, thresholds, weakEnds, splitValues, belowOutputs, aboveOutputs, offsets, coefficients, nodePlaces } = c;
     const bottomRight = windowHeight * stride + windowWidth;
     const bottomLeft = windowHeight * stride;

@@ -1,3 +1,4 @@
+import { weakClassifierSplits } from '../../src/model/cascade-model.js';
 import { readFileSync } from 'node:fs';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { describe, expect, it } from 'vitest';
@@ -85,5 +86,43 @@ describe('model JSON', () => {
   it('refuses oversized stage lists before walking them', () => {
     const text = withChange((m) => (m.stages = Array.from({ length: 1001 }, () => m.stages[0])));
     expect(() => parseCascadeModel(text, 'big.json')).toThrow(/stages has 1001 entries, above the limit of 1000/);
+  });
+
+  describe('feature sets', () => {
+    const tilted = { kind: 'tilted-three-horizontal', x: 1, y: 0, cellWidth: 1, cellHeight: 1 };
+    const surround = { kind: 'centre-surround', x: 0, y: 0, cellWidth: 2, cellHeight: 1 };
+
+    it('reads an extended model with tilted and centre-surround kinds back to the same model and bytes', () => {
+      const text = withChange((m) => {
+        m.featureSet = 'extended';
+        m.stages[0].weakClassifiers[0].feature = tilted;
+        m.stages[0].weakClassifiers[1].feature = surround;
+      });
+      const parsed = parseCascadeModel(text, 'extended.json');
+      expect(parsed.featureSet).toBe('extended');
+      expect(parsed.stages[0]!.weakClassifiers.map((weak) => weakClassifierSplits(weak)[0]!.feature.kind)).toEqual(['tilted-three-horizontal', 'centre-surround']);
+      expect(parseCascadeModel(serializeCascadeModel(parsed), 'again.json')).toEqual(parsed);
+      expect(validateWithSchema(JSON.parse(serializeCascadeModel(parsed)))).toBe(true);
+    });
+
+    it('refuses the added kinds in a basic model, in the loader and in the schema alike', () => {
+      for (const feature of [tilted, surround]) {
+        const text = withChange((m) => (m.stages[0].weakClassifiers[0].feature = feature));
+        expect(() => parseCascadeModel(text, 'basic.json')).toThrow(/stages\[0\]\.weakClassifiers\[0\]\.feature\.kind must be one of two-horizontal, .*four-diagonal; received/);
+        expect(validateWithSchema(JSON.parse(text))).toBe(false);
+      }
+    });
+
+    it('refuses a tilted feature whose footprint leaves the window (x − cellHeight < 0)', () => {
+      const text = withChange((m) => {
+        m.featureSet = 'extended';
+        m.stages[0].weakClassifiers[0].feature = { ...tilted, x: 0 };
+      });
+      expect(() => parseCascadeModel(text, 'outside.json')).toThrow(/feature lies outside the 6×4 window/);
+    });
+
+    it('refuses an unknown feature set', () => {
+      expect(() => parseCascadeModel(withChange((m) => (m.featureSet = 'tilted')), 'set.json')).toThrow(/featureSet must be one of basic, extended/);
+    });
   });
 });

@@ -95,6 +95,21 @@ describe('rectboost train', () => {
     expect(result.stderr).toMatch(/--weak-depth/);
   });
 
+  it('trains --features extended on 2 workers: an extended model that may use tilted kinds, recorded, and detect scans with it', () => {
+    const out = join(root, 'extended.json');
+    const result = train(out, ['--workers', '2', '--features', 'extended']);
+    expect(result.stderr).toBe('');
+    expect(result.status).toBe(0);
+    const model = parseCascadeModel(readFileSync(out, 'utf8'), out);
+    expect(model.featureSet).toBe('extended');
+    expect(model.training!.options['features']).toBe('extended');
+    expect(model.stages.length).toBeGreaterThanOrEqual(1);
+    const image = join(data.backgrounds, 'b000.png');
+    const detected = runCli(['detect', out, image]);
+    expect(detected.status).toBe(0);
+    expect(detected.stderr).toMatch(/^detect: 1 images, [\d.]+k windows/);
+  });
+
   it('is deterministic: same data, options and seed give byte-identical models, with 1 or 2 workers', () => {
     const a = join(root, 'same-a.json');
     const b = join(root, 'same-b.json');

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { BASIC_FEATURE_KINDS, type FeatureKind } from '../../src/features/feature-kind.js';
+import { BASIC_FEATURE_KINDS, type BasicFeatureKind } from '../../src/features/feature-kind.js';
 import { countFeatures, countFeaturesOfKind, enumerateFeatures } from '../../src/features/enumerate-features.js';
 import { featureFitsWindow } from '../../src/features/haar-feature.js';
 
@@ -11,7 +11,7 @@ interface CountFixture {
 const fixture = JSON.parse(readFileSync(new URL('../fixtures/skimage-haar-features.json', import.meta.url), 'utf8')) as CountFixture;
 
 // Explicit mapping between scikit-image's type names and ours.
-const SKIMAGE_TYPE: Record<FeatureKind, string> = {
+const SKIMAGE_TYPE: Record<BasicFeatureKind, string> = {
   'two-horizontal': 'type-2-x',
   'two-vertical': 'type-2-y',
   'three-horizontal': 'type-3-x',

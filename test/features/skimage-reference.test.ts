@@ -48,6 +48,8 @@ function toSkimageValue(feature: HaarFeature, ours: number, centreSum: number): 
     case 'three-horizontal':
     case 'three-vertical':
       return ours - centreSum;
+    default:
+      throw new Error(`scikit-image has no ${feature.kind} feature`);
   }
 }
 

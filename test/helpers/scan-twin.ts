@@ -3,6 +3,7 @@ import { weakClassifierDepth, weakClassifierFromTree, type CascadeModel, type De
 import type { HaarFeature } from '../../src/features/haar-feature.js';
 import { resolveScanOptions, scanScales, type ScanOptions, type RawHits, type ScanStatistics } from '../../src/detect/scan-image.js';
 import { enumerateFeatures } from '../../src/features/enumerate-features.js';
+import { FEATURE_SET_KINDS, type FeatureSetName } from '../../src/features/feature-kind.js';
 import { evaluateNormalizedFeature } from '../../src/features/evaluate-feature.js';
 import type { IntegralImage } from '../../src/image/integral-image.js';
 import { windowStatistics } from '../../src/image/window-statistics.js';
@@ -69,20 +70,29 @@ export function hitStrings(hits: RawHits): string[] {
 }
 
 /**
- * A cascade of random basic features on a 12×10 window (by default), seeded:
+ * A cascade of random features of a feature set (default basic) on a 12×10 window (by default), seeded:
  * stage k has stageSizes[k] classifiers with splits in [−0.5, 0.5), below outputs
  * in (−1, 0], above outputs in [0, 1); a lone classifier gets threshold 0 (the only
  * one at which it can reject), larger stages a threshold in (−0.3, 0].
  */
-export function randomCascadeModel(seed: string, stageSizes: number[], window = { width: 12, height: 10 }): CascadeModel & { readonly stages: ReadonlyArray<Stage & { readonly weakClassifiers: readonly DecisionStump[] }> } {
+export function randomCascadeModel(seed: string, stageSizes: number[], window = { width: 12, height: 10 }, featureSet: FeatureSetName = 'basic'): CascadeModel & { readonly stages: ReadonlyArray<Stage & { readonly weakClassifiers: readonly DecisionStump[] }> } {
   const random = seedrandom(seed);
-  const features = enumerateFeatures(window.width, window.height);
+  // Basic: uniform over all features. Extended: a uniform kind first, so the six added
+  // kinds are not drowned by the many upright features.
+  const kinds = FEATURE_SET_KINDS[featureSet];
+  const byKind = kinds.map((kind) => enumerateFeatures(window.width, window.height, [kind]));
+  const all = byKind.flat();
+  const pick = () => {
+    if (featureSet === 'basic') return all[Math.floor(random() * all.length)]!;
+    const ofKind = byKind[Math.floor(random() * kinds.length)]!;
+    return ofKind[Math.floor(random() * ofKind.length)]!;
+  };
   return {
-    format: 'rectboost-cascade', version: 1, window, normalization: 'window-standard-deviation', featureSet: 'basic',
+    format: 'rectboost-cascade', version: 1, window, normalization: 'window-standard-deviation', featureSet,
     stages: stageSizes.map((size) => ({
       threshold: size === 1 ? 0 : -0.3 * random(),
       weakClassifiers: Array.from({ length: size }, () => ({
-        feature: features[Math.floor(random() * features.length)]!, splitValue: random() - 0.5, belowOutput: -random(), aboveOutput: random(),
+        feature: pick(), splitValue: random() - 0.5, belowOutput: -random(), aboveOutput: random(),
       })),
     })),
   };

@@ -8,7 +8,7 @@ import { windowInverseDeviation } from '../../src/image/window-statistics.js';
 /**
  * The plain-JS, window-by-window reference for evaluation over lists of windows (the
  * twin of src/detect/window-list.ts and the scan kernel): each window gets its own
- * integral image, its σ from the σ rule (windowInverseDeviation), every feature from
+ * integral image (with the rotated table, for tilted features), its σ from the σ rule (windowInverseDeviation), every feature from
  * its rectangles (evaluateNormalizedFeature), outputs summed from 0 in order, and a
  * stage passes when score − threshold ≥ 0 (the kernel's test, written the kernel's way).
  * Flat windows pass no stage of any cascade and score −∞.
@@ -35,7 +35,7 @@ export function twinWeakOutput(weak: WeakClassifier, valueOf: (feature: HaarFeat
 
 /** Σ outputs of one stage on one window; −∞ for a flat window. */
 export function twinStageScore(stage: Pick<Stage, 'weakClassifiers'>, window: GrayImage): number {
-  const integral = computeIntegralImage(window);
+  const integral = computeIntegralImage(window, { rotated: true });
   if (windowInverseDeviation(integral, 0, 0, window.width, window.height) === 0) return -Infinity;
   let score = 0;
   for (const weak of stage.weakClassifiers) {
@@ -46,7 +46,7 @@ export function twinStageScore(stage: Pick<Stage, 'weakClassifiers'>, window: Gr
 
 /** How far one window gets through the cascade. */
 export function twinDepth(model: Pick<CascadeModel, 'stages'>, window: GrayImage): TwinDepth {
-  const integral = computeIntegralImage(window);
+  const integral = computeIntegralImage(window, { rotated: true });
   if (windowInverseDeviation(integral, 0, 0, window.width, window.height) === 0) return { stagesPassed: 0, margin: -Infinity, evidence: 0 };
   let margin = 0;
   let evidence = 0;

@@ -1,3 +1,4 @@
+import { weakClassifierSplits } from '../../src/model/cascade-model.js';
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -10,9 +11,10 @@ import { detectorCascadeFromModel } from '../../src/detect/detector-cascade.js';
 import { decodeGrayImageFile } from '../../src/io/decode-image.js';
 import { encodeGrayPng } from '../../src/io/encode-image.js';
 import { cropGrayImage } from '../../src/image/gray-image.js';
-import { parseCascadeModel } from '../../src/cascade/model-json.js';
+import { parseCascadeModel, serializeCascadeModel } from '../../src/cascade/model-json.js';
+import { randomGrayImage } from '../helpers/random-image.js';
+import { randomCascadeModel } from '../helpers/scan-twin.js';
 import { REFERENCE_DATA, shouldRunWith } from '../data/reference-files.js';
-import { serializeCascadeModel } from '../../src/cascade/model-json.js';
 import { randomTreeCascadeModel } from '../helpers/scan-twin.js';
 import { runCli } from '../helpers/run-cli.js';
 
@@ -277,5 +279,39 @@ describe.skipIf(!haveCompiler)(`C99 export compiled with ${compiler ?? 'cc'}`, (
       expect(result.status).toBe(1);
       expect(result.stderr).toMatch(/cannot be opened/);
     });
+  });
+});
+
+describe.skipIf(!haveCompiler)('C99 export of an extended cascade (tilted and centre-surround features)', () => {
+  it('float build prints the same JSON lines as rectboost detect; the integer build runs clean under the sanitizers', async () => {
+    const extendedDir = mkdtempSync(join(tmpdir(), 'rectboost-c-extended-'));
+    const model = randomCascadeModel('c-extended', [3, 3], { width: 12, height: 10 }, 'extended');
+    expect(model.stages.flatMap((s) => s.weakClassifiers).some((weak) => weakClassifierSplits(weak)[0]!.feature.kind.startsWith('tilted-'))).toBe(true);
+    const modelPath = join(extendedDir, 'extended.json');
+    writeFileSync(modelPath, serializeCascadeModel(model));
+    const footprint = exportC(modelPath, extendedDir);
+    expect(footprint).not.toBe('');
+    const float = compileC(extendedDir, 'detect-float', 'float', C_SANITIZER_FLAGS);
+    const integer = compileC(extendedDir, 'detect-integer', 'integer', C_SANITIZER_FLAGS);
+    const image = randomGrayImage(83, 61, 'c-extended-image');
+    const png = join(extendedDir, 'noise.png');
+    const pgm = join(extendedDir, 'noise.pgm');
+    writeFileSync(png, await encodeGrayPng(image));
+    writePgm(pgm, image);
+    for (const options of [['--merge', 'none', '--scale-step', '1.2'], ['--merge', 'none', '--scale-step', '1.1', '--shift', '1.5']]) {
+      const out = join(extendedDir, 'cli.jsonl');
+      const cli = runCli(['detect', modelPath, png, '--no-timing', '--quiet', '--workers', '0', '--out', out, ...options]);
+      expect(cli.stderr).toBe('');
+      const expected = readFileSync(out, 'utf8').replace(JSON.stringify(png), JSON.stringify(pgm));
+      expect((JSON.parse(expected) as Line).detections.length).toBeGreaterThan(5);
+      const c = runC(float, ['--no-timing', ...options, pgm]);
+      expect(c.stderr).toBe('');
+      expect(c.status).toBe(0);
+      expect(c.stdout).toBe(expected);
+      const fixed = runC(integer, ['--no-timing', ...options, pgm]);
+      expect(fixed.stderr).toBe('');
+      expect(fixed.status).toBe(0);
+      expect((JSON.parse(fixed.stdout) as Line).windowsScanned).toBe((JSON.parse(expected) as Line).windowsScanned);
+    }
   });
 });

@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { loadAnnotations } from '../../data/annotations.js';
 import { loadPositiveWindows } from '../../data/positives.js';
-import type { DetectorCascade } from '../../detect/detector-cascade.js';
+import { cascadeUsesTiltedFeatures, type DetectorCascade } from '../../detect/detector-cascade.js';
 import type { ScanStatistics } from '../../detect/scan-image.js';
 import { RectboostError } from '../../errors.js';
 import { packWindowSamples } from '../../features/window-samples.js';
@@ -63,7 +63,7 @@ export async function runEvaluation(command: string, modelPath: string, detector
   if (patchMode) {
     const load = async (folder: string) => {
       const loaded = await loadPositiveWindows(folder, { windowWidth: detector.windowWidth, windowHeight: detector.windowHeight, mirror: false, skipBad: false });
-      return { samples: packWindowSamples(loaded.windows, detector.windowWidth, detector.windowHeight), windows: loaded.windows, sources: loaded.sources };
+      return { samples: packWindowSamples(loaded.windows, detector.windowWidth, detector.windowHeight, undefined, { rotated: cascadeUsesTiltedFeatures(detector) }), windows: loaded.windows, sources: loaded.sources };
     };
     const positivePatches = await load(options.positives!);
     const negativePatches = await load(options.negatives!);

@@ -59,7 +59,7 @@ export function registerTrainCommand(program: Command): void {
     .option('--negatives <count>', 'negatives mined for every stage', String(DEFAULTS.negativesPerStage))
     .option('--booster <kind>', 'discrete or gentle AdaBoost', DEFAULTS.booster)
     .option('--weak-depth <levels>', 'depth of each weak classifier: 1 boosts decision stumps, 2 or 3 small decision trees', '1')
-    .option('--features <set>', 'feature set: basic (extended is not built yet)', 'basic')
+    .option('--features <set>', 'feature set: basic (the five upright kinds) or extended (adds 45° tilted and centre-surround kinds)', 'basic')
     .option('--mirror', 'add left-right mirrored copies of the positives')
     .option('--augment <copies>', 'seeded augmented copies of every training positive (small shifts, scales, rotations, contrast and brightness)', '0')
     .option('--negative-patches <folder>', 'folder of windows to be rejected (confusable objects, or the false-alarms folder of rectboost evaluate --errors); every stage uses those it still accepts')
@@ -102,9 +102,6 @@ async function runTrain(flags: TrainFlags): Promise<void> {
   const out = required(flags.out, '--out FILE');
   const window = parseWindowSize('--window', flags.window, 4, MAX_WINDOW_SIDE);
   const featureSet = parseChoice('--features', flags.features, ['basic', 'extended']);
-  if (featureSet === 'extended') {
-    throw new RectboostError('invalid-option', '--features extended (tilted and centre-surround features) is not built yet; use --features basic.');
-  }
   const options: TrainModelOptions = {
     positives,
     backgrounds,
@@ -122,6 +119,7 @@ async function runTrain(flags: TrainFlags): Promise<void> {
     validationShare: parseNumber('--validation', flags.validation, 0, 0.9),
     seed: parseInteger('--seed', flags.seed, 0, 2 ** 31 - 1),
     memoryBytes: parseNumber('--memory', flags.memory, 0.01, 1024) * 1024 ** 3,
+    featureSet,
     ...(flags.workers === undefined ? {} : { workers: parseInteger('--workers', flags.workers, 1, 256) }),
     ...(flags.checkpoint === undefined ? {} : { checkpointDirectory: flags.checkpoint }),
     resume: flags.resume === true,

@@ -37,7 +37,7 @@ export function registerTuneCommand(program: Command): void {
       const workers = options.workers === undefined ? undefined : parseInteger('--workers', options.workers, 0, 256);
       const { model } = await loadModelFile(modelPath, { require: 'full-model', neededBy: 'rectboost tune' });
       const { windows } = await loadPositiveWindows(options.positives, { windowWidth: model.window.width, windowHeight: model.window.height, mirror: false, skipBad: false });
-      const samples = packWindowSamples(windows, model.window.width, model.window.height);
+      const samples = packWindowSamples(windows, model.window.width, model.window.height, undefined, { rotated: model.featureSet === 'extended' });
       const result = retuneCascade(model, samples, {
         ...(stageDetectionRate === undefined ? {} : { stageDetectionRate }),
         ...(finalStageOffset === undefined ? {} : { finalStageOffset }),
