@@ -3,33 +3,30 @@ import type { SplitCandidate } from './best-split.js';
 import type { ResponseMatrix } from './response-matrix.js';
 
 /**
- * A grown tree in matrix terms, before the booster turns its leaves into outputs:
- * samples whose bin in row `feature` is < `bin` go `below`. A leaf keeps the class
- * weights that reach it.
+ * A tree in matrix terms: samples whose bin in row `feature` is < `bin` go `below`.
+ * One shape serves both stages of a round; only the leaves differ.
  */
-export type GrownBranch = GrownSplit | GrownLeaf;
-export interface GrownSplit {
+export interface MatrixTreeSplit<Leaf> {
   readonly feature: number;
   readonly bin: number;
-  readonly below: GrownBranch;
-  readonly above: GrownBranch;
+  readonly below: MatrixTreeSplit<Leaf> | Leaf;
+  readonly above: MatrixTreeSplit<Leaf> | Leaf;
 }
+
+/** A grown leaf keeps the class weights that reach it, before the booster turns them into an output. */
 export interface GrownLeaf {
   readonly positive: number;
   readonly negative: number;
 }
+export type GrownSplit = MatrixTreeSplit<GrownLeaf>;
+export type GrownBranch = GrownSplit | GrownLeaf;
 
-/** A tree with outputs in matrix terms: the weak classifier a tree round chose. */
-export type MatrixBranch = MatrixSplit | MatrixLeaf;
-export interface MatrixSplit {
-  readonly feature: number;
-  readonly bin: number;
-  readonly below: MatrixBranch;
-  readonly above: MatrixBranch;
-}
+/** A leaf with its output: the weak classifier a tree round chose. */
 export interface MatrixLeaf {
   readonly output: number;
 }
+export type MatrixSplit = MatrixTreeSplit<MatrixLeaf>;
+export type MatrixBranch = MatrixSplit | MatrixLeaf;
 
 /** What a tree round chose: the tree (its root a split), its weighted error and α (1 for Gentle). */
 export interface ChosenTree {
